@@ -1,0 +1,395 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"mixwell/verification"
+)
+
+// variantFlag ties a problem with element variants to the flag that picks
+// the variant.
+type variantFlag struct {
+	flag    string
+	problem string
+	what    string // what the variant chooses, for the help text
+	// fallback lists the choices offered by shell completion while the
+	// problem is not registered in this build.
+	fallback []string
+}
+
+var variantFlags = []variantFlag{
+	{"flux", "mixed-poisson", "`SPACE` of the flux", []string{"rt", "bdm"}},
+	{"pair", "stokes", "element `PAIR`", []string{"taylor-hood", "scott-vogelius"}},
+}
+
+var (
+	meshChoices   = []string{"structured", "perturbed"}
+	formatChoices = []string{"table", "json"}
+)
+
+type verifyOptions struct {
+	problem string
+	flux    string
+	pair    string
+	degree  int
+	levels  int
+	coarse  int
+	mesh    string
+	seed    uint64
+	format  string
+	plot    string
+	quiet   bool
+}
+
+func newVerifyCmd(d deps) *cobra.Command {
+	var o verifyOptions
+	cmd := &cobra.Command{
+		Use:   "verify --problem NAME --degree K [flags]",
+		Short: "Run a convergence study against a manufactured solution",
+		Long: `Verify solves a problem with a known smooth solution on the unit square,
+on a sequence of uniformly refined meshes, and reports the error in each
+norm on every mesh together with the observed convergence rate and the rate
+theory predicts. Observed rates close to the predicted ones are the evidence
+that elements, assembly and linear solver are right.
+
+--degree is always the degree k of the pressure or potential space (for
+poisson, the Lagrange degree). For example, taylor-hood with --degree 2
+uses quadratic pressures and cubic velocities, and rt with --degree 0 uses
+the lowest-order Raviart–Thomas fluxes with piecewise constant potentials.
+
+Problems in this build:
+` + problemList(d.problems()) + `
+
+Output goes to stdout: a table (--format table) or a JSON object
+(--format json) with the keys problem, variant, degree, mesh, h, unknowns,
+errors (per norm, one error per level), rates (observed rate on the finest
+pair of levels), expected (theoretical rates, same keys as rates),
+pair_rates (observed rate for every consecutive pair of levels) and
+residuals (relative residual of the linear solve per level). When stderr is
+a terminal, a line per solved level is printed there unless --quiet.`,
+		Example: `  # Lagrange elements of degree 3, table on stdout
+  mixwell verify --problem poisson --degree 3 --levels 4
+
+  # Brezzi–Douglas–Marini fluxes with piecewise linear potentials, as JSON
+  mixwell verify --problem mixed-poisson --flux bdm --degree 1 --levels 4 --format json
+
+  # Scott–Vogelius on randomly perturbed meshes, with a log–log plot
+  mixwell verify --problem stokes --pair scott-vogelius --degree 2 --levels 3 \
+      --mesh perturbed --seed 7 --plot stokes-sv2.png`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			cfg, err := o.config(cmd, d.problems())
+			if err != nil {
+				return err
+			}
+			// From here on the flags are well formed; failures are not
+			// misuse, so they print one error line without usage text.
+			cmd.SilenceUsage = true
+			return runVerify(cmd, d, &o, cfg)
+		},
+	}
+
+	f := cmd.Flags()
+	infos := d.problems()
+	f.StringVar(&o.problem, "problem", "", "`NAME` of the problem to solve (required): "+listOrNone(problemNames(infos)))
+	for _, v := range variantFlags {
+		target := &o.flux
+		if v.flag == "pair" {
+			target = &o.pair
+		}
+		f.StringVar(target, v.flag, "", variantUsage(v, infos))
+	}
+	f.IntVar(&o.degree, "degree", 0, "degree `K` of the pressure or potential space; for poisson, the Lagrange degree (required)")
+	f.IntVar(&o.levels, "levels", 4, "number `L` of meshes, each a uniform refinement of the one before (at least 2)")
+	f.IntVar(&o.coarse, "coarse", 0, "`N` cells per side on the coarsest mesh (0: the problem's default for the degree)")
+	f.StringVar(&o.mesh, "mesh", "structured", "coarse mesh `KIND`: structured, or perturbed (vertices moved at random)")
+	f.Uint64Var(&o.seed, "seed", 1, "seed `S` of the random perturbation (only with --mesh perturbed)")
+	f.StringVar(&o.format, "format", "table", "output `FORMAT`: table or json")
+	f.StringVar(&o.plot, "plot", "", "also draw error against h on log–log axes into `FILE` (.png or .svg)")
+	f.BoolVarP(&o.quiet, "quiet", "q", false, "print no progress lines")
+	f.SortFlags = false
+
+	registerVerifyCompletions(cmd, d)
+	return cmd
+}
+
+// config checks the flags and turns them into a study configuration. Its
+// errors are misuse of the command line.
+func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemInfo) (verification.Config, error) {
+	var cfg verification.Config
+	names := problemNames(infos)
+	if o.problem == "" {
+		return cfg, fmt.Errorf("missing --problem (valid: %s)", listOrNone(names))
+	}
+	i := slices.IndexFunc(infos, func(p verification.ProblemInfo) bool { return p.Name == o.problem })
+	if i < 0 {
+		return cfg, fmt.Errorf("unknown problem %q (valid: %s)", o.problem, listOrNone(names))
+	}
+	info := infos[i]
+
+	variant := ""
+	flags := cmd.Flags()
+	for _, v := range variantFlags {
+		if !flags.Changed(v.flag) {
+			continue
+		}
+		value := o.flux
+		if v.flag == "pair" {
+			value = o.pair
+		}
+		if o.problem != v.problem {
+			return cfg, fmt.Errorf("--%s applies only to --problem %s, not to %s", v.flag, v.problem, o.problem)
+		}
+		if !slices.Contains(info.Variants, value) {
+			return cfg, fmt.Errorf("--%s %q is not available (valid: %s)", v.flag, value, listOrNone(info.Variants))
+		}
+		variant = value
+	}
+	if variant == "" && len(info.Variants) > 0 {
+		variant = info.Variants[0]
+	}
+
+	what := "problem " + o.problem
+	if variant != "" {
+		what += " with " + variant
+	}
+	degrees := info.Degrees[variant]
+	if !flags.Changed("degree") {
+		return cfg, fmt.Errorf("missing --degree: %s takes degrees %s", what, joinInts(degrees))
+	}
+	if !slices.Contains(degrees, o.degree) {
+		return cfg, fmt.Errorf("%s has no degree %d (valid: %s)", what, o.degree, joinInts(degrees))
+	}
+
+	if o.levels < 2 {
+		return cfg, fmt.Errorf("--levels must be at least 2 to observe a rate, got %d", o.levels)
+	}
+	if o.coarse < 0 {
+		return cfg, fmt.Errorf("--coarse must be positive (or 0 for the default), got %d", o.coarse)
+	}
+	if !slices.Contains(meshChoices, o.mesh) {
+		return cfg, fmt.Errorf("unknown --mesh %q (valid: %s)", o.mesh, strings.Join(meshChoices, ", "))
+	}
+	if flags.Changed("seed") && o.mesh != "perturbed" {
+		return cfg, errors.New("--seed applies only to --mesh perturbed")
+	}
+	if !slices.Contains(formatChoices, o.format) {
+		return cfg, fmt.Errorf("unknown --format %q (valid: %s)", o.format, strings.Join(formatChoices, ", "))
+	}
+	if flags.Changed("plot") {
+		if _, err := verification.PlotFormat(o.plot); err != nil {
+			return cfg, fmt.Errorf("--plot %q: the file name must end in .png or .svg", o.plot)
+		}
+	}
+
+	return verification.Config{
+		Problem:   o.problem,
+		Variant:   variant,
+		Degree:    o.degree,
+		Levels:    o.levels,
+		Coarse:    o.coarse,
+		Perturbed: o.mesh == "perturbed",
+		Seed:      o.seed,
+	}, nil
+}
+
+func runVerify(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.Config) error {
+	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
+
+	// Find out before a possibly long study that the plot cannot be
+	// written.
+	if o.plot != "" {
+		dir := filepath.Dir(o.plot)
+		if fi, err := os.Stat(dir); err != nil {
+			return fmt.Errorf("--plot %q: directory %q: %w", o.plot, dir, errors.Unwrap(err))
+		} else if !fi.IsDir() {
+			return fmt.Errorf("--plot %q: %q is not a directory", o.plot, dir)
+		}
+	}
+
+	var progress func(level int)
+	if !o.quiet && d.isTerminal(stderr) {
+		last := time.Now()
+		progress = func(level int) {
+			now := time.Now()
+			fmt.Fprintln(stderr, progressLine(level, cfg.Levels, now.Sub(last)))
+			last = now
+		}
+	}
+
+	s, err := d.run(cfg, progress)
+	if err != nil {
+		return oneLine(err)
+	}
+
+	switch o.format {
+	case "json":
+		err = verification.WriteJSON(stdout, s)
+	default:
+		err = verification.WriteTable(stdout, s)
+	}
+	if err != nil {
+		return fmt.Errorf("writing the results: %w", err)
+	}
+
+	if o.plot != "" {
+		if err := verification.WritePlot(o.plot, s); err != nil {
+			return oneLine(err)
+		}
+		if progress != nil {
+			fmt.Fprintf(stderr, "plot written to %s\n", o.plot)
+		}
+	}
+	return nil
+}
+
+// progressLine reports that level (counted from 0) of levels has been
+// solved, and how long it took.
+//
+// TODO: add the number of unknowns ("level 2/4 solved (12 345 unknowns,
+// 1.2 s)") once the progress callback of verification.Run passes it.
+func progressLine(level, levels int, took time.Duration) string {
+	return fmt.Sprintf("level %d/%d solved (%.1f s)", level+1, levels, took.Seconds())
+}
+
+func registerVerifyCompletions(cmd *cobra.Command, d deps) {
+	fixed := func(choices ...string) cobra.CompletionFunc {
+		return cobra.FixedCompletions(choices, cobra.ShellCompDirectiveNoFileComp)
+	}
+	must := func(err error) {
+		if err != nil {
+			panic("mixwell: registering completion: " + err.Error())
+		}
+	}
+
+	must(cmd.RegisterFlagCompletionFunc("problem", func(*cobra.Command, []string, string) ([]cobra.Completion, cobra.ShellCompDirective) {
+		var out []cobra.Completion
+		for _, p := range d.problems() {
+			out = append(out, cobra.CompletionWithDesc(p.Name, problemSummary(p)))
+		}
+		return out, cobra.ShellCompDirectiveNoFileComp
+	}))
+	for _, v := range variantFlags {
+		must(cmd.RegisterFlagCompletionFunc(v.flag, func(*cobra.Command, []string, string) ([]cobra.Completion, cobra.ShellCompDirective) {
+			for _, p := range d.problems() {
+				if p.Name == v.problem {
+					return p.Variants, cobra.ShellCompDirectiveNoFileComp
+				}
+			}
+			return v.fallback, cobra.ShellCompDirectiveNoFileComp
+		}))
+	}
+	must(cmd.RegisterFlagCompletionFunc("degree", func(c *cobra.Command, _ []string, _ string) ([]cobra.Completion, cobra.ShellCompDirective) {
+		problem, _ := c.Flags().GetString("problem")
+		for _, p := range d.problems() {
+			if p.Name != problem {
+				continue
+			}
+			variant := ""
+			if len(p.Variants) > 0 {
+				variant = p.Variants[0]
+				for _, v := range variantFlags {
+					if s, _ := c.Flags().GetString(v.flag); v.problem == problem && s != "" {
+						variant = s
+					}
+				}
+			}
+			var out []cobra.Completion
+			for _, k := range p.Degrees[variant] {
+				out = append(out, strconv.Itoa(k))
+			}
+			return out, cobra.ShellCompDirectiveNoFileComp
+		}
+		return nil, cobra.ShellCompDirectiveNoFileComp
+	}))
+	must(cmd.RegisterFlagCompletionFunc("mesh", fixed(meshChoices...)))
+	must(cmd.RegisterFlagCompletionFunc("format", fixed(formatChoices...)))
+	must(cmd.RegisterFlagCompletionFunc("plot", cobra.FixedCompletions([]string{"png", "svg"}, cobra.ShellCompDirectiveFilterFileExt)))
+}
+
+// variantUsage is the help line of a variant flag, with the choices and the
+// default taken from the registered problem when there is one.
+func variantUsage(v variantFlag, infos []verification.ProblemInfo) string {
+	choices := v.fallback
+	for _, p := range infos {
+		if p.Name == v.problem {
+			choices = p.Variants
+		}
+	}
+	u := v.what + " for --problem " + v.problem + ": " + strings.Join(choices, " or ")
+	if len(choices) > 0 {
+		u += " (default " + choices[0] + ")"
+	}
+	return u
+}
+
+func problemNames(infos []verification.ProblemInfo) []string {
+	names := make([]string, len(infos))
+	for i, p := range infos {
+		names[i] = p.Name
+	}
+	return names
+}
+
+// problemSummary describes the variants and degrees of a problem, as in
+// "rt: degrees 0, 1, 2; bdm: degrees 0, 1, 2".
+func problemSummary(p verification.ProblemInfo) string {
+	if len(p.Variants) == 0 {
+		return "degrees " + joinInts(p.Degrees[""])
+	}
+	parts := make([]string, len(p.Variants))
+	for i, v := range p.Variants {
+		parts[i] = v + ": degrees " + joinInts(p.Degrees[v])
+	}
+	return strings.Join(parts, "; ")
+}
+
+// problemList is the list of problems for the help text, one per line.
+func problemList(infos []verification.ProblemInfo) string {
+	if len(infos) == 0 {
+		return "  (none: no problem is registered in this build)"
+	}
+	names := make([]string, len(infos))
+	width := 0
+	for i, p := range infos {
+		names[i] = p.Name
+		for _, v := range variantFlags {
+			if v.problem == p.Name {
+				names[i] += " (--" + v.flag + ")"
+			}
+		}
+		width = max(width, len(names[i]))
+	}
+	lines := make([]string, len(infos))
+	for i, p := range infos {
+		lines[i] = fmt.Sprintf("  %-*s  %s", width, names[i], problemSummary(p))
+	}
+	return strings.Join(lines, "\n")
+}
+
+func listOrNone(names []string) string {
+	if len(names) == 0 {
+		return "none in this build"
+	}
+	return strings.Join(names, ", ")
+}
+
+func joinInts(v []int) string {
+	if len(v) == 0 {
+		return "none"
+	}
+	s := make([]string, len(v))
+	for i, k := range v {
+		s[i] = strconv.Itoa(k)
+	}
+	return strings.Join(s, ", ")
+}
