@@ -41,7 +41,8 @@
 // Matrix Anal. Appl. 17, 1996), reverse Cuthill–McKee, or the natural
 // order. For saddle-point matrices (zero diagonal in the constraint block)
 // the minimum degree ordering pairs each constraint with a coupled
-// unknown and orders the pair as one node, so that every leading block of
+// unknown, chosen on the scaled matrix among its numerically significant
+// couplings, and orders the pair as one node, so that every leading block of
 // the permuted matrix is nonsingular and diagonal pivots exist (after Duff
 // and Pralet, SIAM J. Matrix Anal. Appl. 27, 2005, and Bridson's
 // constrained orderings, 2005); see MinimumDegreeOrder.
@@ -52,8 +53,9 @@
 // J. Sci. Stat. Comput. 9, 1988): each column is a sparse triangular solve
 // whose pattern is found by depth-first search. The pivot is the diagonal
 // entry of the permuted matrix when its magnitude is at least τ (default
-// 0.1) times the largest candidate of its column, otherwise the largest
-// candidate (threshold partial pivoting), so unsymmetric and indefinite
+// 0.1) times the largest candidate of its column; otherwise, of the
+// candidates within the threshold, the one whose row comes earliest in the
+// ordering (a pair is then pivoted as a 2×2 block), so unsymmetric and indefinite
 // matrices are handled too. Refactor reuses the ordering for new values.
 //
 // Failures return errors that carry data: ErrNotSquare (wrapped, with the
@@ -61,4 +63,23 @@
 // numerical), *NotConvergedError (iterations and residual), and Matrix
 // Market errors with the line number. Programmer errors (index out of
 // range, mismatched vector lengths) panic with a "solver: " message.
+//
+// # Nonlinear fixed-point solvers
+//
+// SolveFixedPoint finds x = G(x) for a map given as a function
+// (FixedPointMap), such as the Picard map of the mixture iteration, by
+// plain or damped Picard iteration, Anderson acceleration (the default;
+// Walker and Ni, SIAM J. Numer. Anal. 49, 2011, with a QR-updated history,
+// conditioning and restart safeguards) or Newton–Krylov on x − G(x)
+// (Kelley, "Iterative Methods for Linear and Nonlinear Equations", SIAM
+// 1995: GMRES with directional differences of G, Eisenstat–Walker forcing
+// terms and an Armijo line search). All methods stop on the same relative
+// residual Norm(x − G(x)) / Norm(x), return a FixedPointResult with the
+// history of every iteration (also on failure), and report failure as a
+// *ConvergenceError (not converged, diverged or non-finite) or a *MapError
+// wrapping an error of G. GMRES, restarted GMRES(m) for a LinearOperator
+// given as a function (Saad and Schultz, SIAM J. Sci. Stat. Comput. 7,
+// 1986), is exported for other matrix-free solves; it does not retain its
+// arguments. SolveFixedPoint does not modify x0 and returns X in memory of
+// its own.
 package solver

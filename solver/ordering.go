@@ -36,10 +36,18 @@ func (o Ordering) String() string {
 }
 
 // order computes the permutation selected by o for the square matrix a.
-func (o Ordering) order(a *CSR) ([]int, error) {
+func (o Ordering) order(a *CSR) ([]int, error) { return o.orderScaled(a, nil) }
+
+// orderScaled is order with the symmetric equilibration of a given (scale),
+// or nil to have it computed when the ordering needs it.
+func (o Ordering) orderScaled(a *CSR, scale []float64) ([]int, error) {
 	switch o {
 	case MinDegree:
-		return MinimumDegreeOrder(a)
+		r, c := a.Dims()
+		if r != c {
+			return nil, notSquare(r, c)
+		}
+		return minimumDegreeScaled(a, true, scale), nil
 	case NaturalOrder:
 		r, c := a.Dims()
 		if r != c {
@@ -129,18 +137,20 @@ func symmetricPattern(a *CSR) (ptr, adj []int, zeroDiag []bool) {
 // Saddle-point safeguards: a node whose diagonal entry is absent or zero
 // (a constraint, such as a pressure in [K Bᵀ; B 0]) is paired with a
 // coupled node of nonzero diagonal, and the pair is ordered as one node,
-// the partner first. The pairs are matched along a breadth-first forest of
-// constraints so that no set of them closes a cycle, which would make a
-// discrete divergence block rank deficient. For K positive definite this
-// keeps every leading block of the reordered matrix nonsingular, so the
-// LU can take diagonal pivots;
-// without it minimum degree eliminates low-degree constraints first, whose
-// zero pivots force row interchanges and several times the fill. A
-// constraint left without a partner is not chosen before one of its
-// neighbours has been eliminated (R. Bridson, "An ordering method for the
-// direct solution of saddle-point matrices", 2005); if only such nodes
-// remain this is dropped. Both safeguards are void for matrices with a
-// nonzero diagonal.
+// the partner first. Partners are chosen on the equilibrated matrix among
+// the numerically significant couplings, and matched so as to avoid sets
+// of pairs that close a cycle, which would make a discrete divergence
+// block rank deficient (see saddlePairs in saddle_pairs.go). For K positive definite
+// this keeps the leading blocks of the reordered matrix nonsingular and
+// well conditioned, so the LU can keep to the ordering (taking each pair
+// as a 2×2 pivot where needed, see LUStats.SwappedPairs); without it
+// minimum degree eliminates low-degree constraints first, whose zero
+// pivots force row interchanges and several times the fill. A constraint
+// left without a partner is not chosen before one of its neighbours has
+// been eliminated (R. Bridson, "An ordering method for the direct solution
+// of saddle-point matrices", 2005); if only such nodes remain this is
+// dropped. Both safeguards are void for matrices with a nonzero diagonal.
+// The values of a are read only to choose the pairs.
 func MinimumDegreeOrder(a *CSR) ([]int, error) {
 	r, c := a.Dims()
 	if r != c {
@@ -159,7 +169,12 @@ const (
 
 // minimumDegree implements MinimumDegreeOrder; saddle switches the
 // saddle-point safeguards (constraint pairs and deferral) on.
-func minimumDegree(a *CSR, saddle bool) []int {
+func minimumDegree(a *CSR, saddle bool) []int { return minimumDegreeScaled(a, saddle, nil) }
+
+// minimumDegreeScaled is minimumDegree with the symmetric equilibration
+// scale of a (EquilibrateSymmetricTo) given, or nil to compute it if a has
+// constraints.
+func minimumDegreeScaled(a *CSR, saddle bool, scale []float64) []int {
 	n := a.rows
 	ptr, adj, zeroDiag := symmetricPattern(a)
 	follower := make([]int, n) // node emitted right after i, or -1
@@ -169,7 +184,7 @@ func minimumDegree(a *CSR, saddle bool) []int {
 	weight := make([]int, n) // number of nodes a principal variable stands for
 	deferred := make([]bool, n)
 	if saddle {
-		partner := constraintPairs(n, ptr, adj, zeroDiag)
+		partner := saddlePairs(a, ptr, adj, zeroDiag, scale)
 		for i, j := range partner {
 			if j >= 0 && !zeroDiag[i] {
 				follower[i] = j
@@ -191,94 +206,6 @@ func minimumDegree(a *CSR, saddle bool) []int {
 		}
 	}
 	return minimumDegreeGraph(ptr, adj, weight, deferred, follower)
-}
-
-// constraintPairs matches constraint nodes (zero diagonal) to distinct
-// neighbours with a nonzero diagonal: partner[c] = v and partner[v] = c, or
-// -1 for unmatched nodes. Eliminating v immediately before c gives c a
-// nonzero diagonal, and the pairs together keep every leading block of a
-// saddle-point matrix [K Bᵀ; B 0] nonsingular as long as, for each set of
-// eliminated constraints, their partners make B restricted to them full
-// rank. For B a discrete divergence (a node–edge incidence matrix) a
-// matching along a cycle of cells fails this, so the matching is grown as a
-// breadth-first forest: it starts at constraints that own a neighbour
-// adjacent to no other constraint (such as a face next to a pinned
-// pressure) and proceeds to constraints sharing a neighbour with an already
-// matched one. Then no set of matched constraints closes a cycle. This
-// compressed 2×2 ordering follows the idea of I. S. Duff and S. Pralet,
-// "Strategies for scaling and pivoting for sparse symmetric indefinite
-// problems", SIAM J. Matrix Anal. Appl. 27(2), 2005 (pairs from a matching
-// are ordered as single nodes); the forest growth is our own.
-func constraintPairs(n int, ptr, adj []int, zeroDiag []bool) []int {
-	partner := make([]int, n)
-	for i := range partner {
-		partner[i] = -1
-	}
-	// zc[v] = number of constraint neighbours of the non-constraint v.
-	zc := make([]int, n)
-	for v := 0; v < n; v++ {
-		if zeroDiag[v] {
-			continue
-		}
-		for _, c := range adj[ptr[v]:ptr[v+1]] {
-			if zeroDiag[c] {
-				zc[v]++
-			}
-		}
-	}
-	queue := make([]int, 0, n)
-	match := func(c, v int) {
-		partner[c], partner[v] = v, c
-		queue = append(queue, c)
-	}
-	grow := func(from int) {
-		for h := from; h < len(queue); h++ {
-			c := queue[h]
-			for _, v := range adj[ptr[c]:ptr[c+1]] {
-				if zeroDiag[v] || partner[v] >= 0 {
-					continue
-				}
-				for _, c2 := range adj[ptr[v]:ptr[v+1]] {
-					if c2 != c && zeroDiag[c2] && partner[c2] < 0 {
-						match(c2, v)
-						break
-					}
-				}
-			}
-		}
-	}
-	// Roots: constraints with a private neighbour.
-	for c := 0; c < n; c++ {
-		if !zeroDiag[c] || partner[c] >= 0 {
-			continue
-		}
-		for _, v := range adj[ptr[c]:ptr[c+1]] {
-			if !zeroDiag[v] && partner[v] < 0 && zc[v] == 1 {
-				match(c, v)
-				break
-			}
-		}
-	}
-	grow(0)
-	// Constraints not reached: start new trees from any free neighbour,
-	// preferring one shared with few other constraints.
-	for c := 0; c < n; c++ {
-		if !zeroDiag[c] || partner[c] >= 0 {
-			continue
-		}
-		best := -1
-		for _, v := range adj[ptr[c]:ptr[c+1]] {
-			if !zeroDiag[v] && partner[v] < 0 && (best < 0 || zc[v] < zc[best]) {
-				best = v
-			}
-		}
-		if best >= 0 {
-			start := len(queue)
-			match(c, best)
-			grow(start)
-		}
-	}
-	return partner
 }
 
 // compressPairs returns the graph in which each pair (v, follower[v]) is
