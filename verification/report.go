@@ -51,6 +51,15 @@ type studyJSON struct {
 	Expected  map[string]jsonFloat   `json:"expected"`
 	PairRates map[string][]jsonFloat `json:"pair_rates"`
 	Residuals []jsonFloat            `json:"residuals"`
+
+	Flavour      string      `json:"flavour,omitempty"`
+	Species      int         `json:"species,omitempty"`
+	S            jsonFloat   `json:"S,omitempty"`
+	Beta         jsonFloat   `json:"beta,omitempty"`
+	Method       string      `json:"method,omitempty"`
+	Iterations   []int       `json:"iterations,omitempty"`
+	Conservation []jsonFloat `json:"conservation,omitempty"`
+	MassAverage  []jsonFloat `json:"mass_average,omitempty"`
 }
 
 // jsonFloat is a float64 that encodes NaN and ±Inf as null.
@@ -77,6 +86,15 @@ func newStudyJSON(s *Study) studyJSON {
 		Expected:  jsonFloatMap(s.Expected),
 		PairRates: jsonFloatSlices(s.PairRates),
 		Residuals: jsonFloats(s.Residuals),
+
+		Flavour:      s.Flavour,
+		Species:      s.Species,
+		S:            jsonFloat(s.S),
+		Beta:         jsonFloat(s.Beta),
+		Method:       s.Method,
+		Iterations:   s.Iterations,
+		Conservation: jsonFloats(s.Conservation),
+		MassAverage:  jsonFloats(s.MassAverage),
 	}
 }
 

@@ -29,6 +29,22 @@ type Config struct {
 	Perturbed bool
 	// Seed seeds the perturbation.
 	Seed uint64
+	// Species is the number of species of the sosm problem (0 means 3).
+	Species int
+	// Flavour is the sosm manufactured-solution layer: "nonlinear" (the
+	// default), "frozen" or "consistent".
+	Flavour string
+	// Method is the nonlinear iteration of the sosm problem: "anderson"
+	// (the default), "picard" or "newton-krylov".
+	Method string
+	// MaxIterations bounds the nonlinear iterations per level (0: 60).
+	MaxIterations int
+	// S overrides the flavour's group S of the sosm problem (0: default).
+	S float64
+	// Beta is the one-sided species augmentation of the sosm problem
+	// (physics.Problem.SpeciesAugmentation); negative means none, 0 the
+	// default.
+	Beta float64
 }
 
 // Study is the result of a convergence study. Errors and rates are keyed by
@@ -49,6 +65,27 @@ type Study struct {
 	// Residuals holds the relative residual ||Ax-b||/||b|| of the linear
 	// solve on each level.
 	Residuals []float64 `json:"residuals"`
+
+	// The fields below belong to the coupled (sosm) problem.
+
+	// Flavour is the manufactured-solution layer.
+	Flavour string `json:"flavour,omitempty"`
+	// Species is the number of species.
+	Species int `json:"species,omitempty"`
+	// S is the group S of the study.
+	S float64 `json:"S,omitempty"`
+	// Beta is the one-sided species augmentation of the study.
+	Beta float64 `json:"beta,omitempty"`
+	// Method names the nonlinear iteration ("" for a frozen study).
+	Method string `json:"method,omitempty"`
+	// Iterations holds the number of nonlinear iterations per level (1
+	// for a frozen study).
+	Iterations []int `json:"iterations,omitempty"`
+	// Conservation holds per level the largest element-wise species
+	// conservation defect, relative.
+	Conservation []float64 `json:"conservation,omitempty"`
+	// MassAverage holds per level ||v - sum J/rho|| / ||v||.
+	MassAverage []float64 `json:"mass_average,omitempty"`
 }
 
 // Norms returns the norm names of the study in sorted order.

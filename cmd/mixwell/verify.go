@@ -3,6 +3,7 @@ package main
 import (
 	"errors"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"slices"
@@ -18,22 +19,24 @@ import (
 // variantFlag ties a problem with element variants to the flag that picks
 // the variant.
 type variantFlag struct {
-	flag    string
-	problem string
-	what    string // what the variant chooses, for the help text
+	flag     string
+	problems []string
+	what     string // what the variant chooses, for the help text
 	// fallback lists the choices offered by shell completion while the
 	// problem is not registered in this build.
 	fallback []string
 }
 
 var variantFlags = []variantFlag{
-	{"flux", "mixed-poisson", "`SPACE` of the flux", []string{"rt", "bdm"}},
-	{"pair", "stokes", "element `PAIR`", []string{"taylor-hood", "scott-vogelius"}},
+	{"flux", []string{"mixed-poisson", "sosm"}, "`SPACE` of the flux", []string{"rt", "bdm"}},
+	{"pair", []string{"stokes"}, "element `PAIR`", []string{"taylor-hood", "scott-vogelius"}},
 }
 
 var (
-	meshChoices   = []string{"structured", "perturbed"}
-	formatChoices = []string{"table", "json"}
+	meshChoices    = []string{"structured", "perturbed"}
+	formatChoices  = []string{"table", "json"}
+	flavourChoices = []string{"nonlinear", "frozen", "consistent"}
+	methodChoices  = []string{"anderson", "picard", "newton-krylov"}
 )
 
 type verifyOptions struct {
@@ -48,6 +51,13 @@ type verifyOptions struct {
 	format  string
 	plot    string
 	quiet   bool
+
+	species int
+	flavour string
+	method  string
+	maxIter int
+	groupS  float64
+	beta    float64
 }
 
 func newVerifyCmd(d deps) *cobra.Command {
@@ -74,8 +84,12 @@ Output goes to stdout: a table (--format table) or a JSON object
 errors (per norm, one error per level), rates (observed rate on the finest
 pair of levels), expected (theoretical rates, same keys as rates),
 pair_rates (observed rate for every consecutive pair of levels) and
-residuals (relative residual of the linear solve per level). When stderr is
-a terminal, a line per solved level is printed there unless --quiet.`,
+residuals (relative residual of the linear solve per level). The coupled
+Stokes–Onsager–Stefan–Maxwell problem (sosm) adds flavour, species, S, beta,
+method, iterations (nonlinear iterations per level, 1 for the frozen
+layer), conservation (largest element-wise species conservation defect per
+level) and mass_average (||v - sum J/rho|| / ||v|| per level). When stderr
+is a terminal, a line per solved level is printed there unless --quiet.`,
 		Example: `  # Lagrange elements of degree 3, table on stdout
   mixwell verify --problem poisson --degree 3 --levels 4
 
@@ -84,7 +98,10 @@ a terminal, a line per solved level is printed there unless --quiet.`,
 
   # Scott–Vogelius on randomly perturbed meshes, with a log–log plot
   mixwell verify --problem stokes --pair scott-vogelius --degree 2 --levels 3 \
-      --mesh perturbed --seed 7 --plot stokes-sv2.png`,
+      --mesh perturbed --seed 7 --plot stokes-sv2.png
+
+  # Three species, Taylor–Hood P2/P1 with BDM2 fluxes, nonlinear layer
+  mixwell verify --problem sosm --species 3 --degree 1 --levels 4 --format json`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			cfg, err := o.config(cmd, d.problems())
@@ -113,6 +130,12 @@ a terminal, a line per solved level is printed there unless --quiet.`,
 	f.IntVar(&o.coarse, "coarse", 0, "`N` cells per side on the coarsest mesh (0: the problem's default for the degree)")
 	f.StringVar(&o.mesh, "mesh", "structured", "coarse mesh `KIND`: structured, or perturbed (vertices moved at random)")
 	f.Uint64Var(&o.seed, "seed", 1, "seed `S` of the random perturbation (only with --mesh perturbed)")
+	f.IntVar(&o.species, "species", 3, "number `N` of species of --problem sosm (2 to 6)")
+	f.StringVar(&o.flavour, "flavour", "nonlinear", "manufactured `LAYER` of --problem sosm: nonlinear, frozen or consistent")
+	f.StringVar(&o.method, "method", "anderson", "nonlinear `METHOD` of --problem sosm: anderson, picard or newton-krylov")
+	f.IntVar(&o.maxIter, "max-iterations", 60, "most nonlinear iterations `M` per level (--problem sosm)")
+	f.Float64Var(&o.groupS, "group-s", 0, "dimensionless group `S` of --problem sosm (0: 1 for frozen, 1e-3 otherwise)")
+	f.Float64Var(&o.beta, "beta", 0, "one-sided species augmentation `BETA` of --problem sosm (0: the default 1; negative: none)")
 	f.StringVar(&o.format, "format", "table", "output `FORMAT`: table or json")
 	f.StringVar(&o.plot, "plot", "", "also draw error against h on log–log axes into `FILE` (.png or .svg)")
 	f.BoolVarP(&o.quiet, "quiet", "q", false, "print no progress lines")
@@ -146,8 +169,8 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 		if v.flag == "pair" {
 			value = o.pair
 		}
-		if o.problem != v.problem {
-			return cfg, fmt.Errorf("--%s applies only to --problem %s, not to %s", v.flag, v.problem, o.problem)
+		if !slices.Contains(v.problems, o.problem) {
+			return cfg, fmt.Errorf("--%s applies only to --problem %s, not to %s", v.flag, strings.Join(v.problems, " or "), o.problem)
 		}
 		if !slices.Contains(info.Variants, value) {
 			return cfg, fmt.Errorf("--%s %q is not available (valid: %s)", v.flag, value, listOrNone(info.Variants))
@@ -191,14 +214,45 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 		}
 	}
 
+	for _, name := range []string{"species", "flavour", "method", "max-iterations", "group-s", "beta"} {
+		if flags.Changed(name) && o.problem != "sosm" {
+			return cfg, fmt.Errorf("--%s applies only to --problem sosm, not to %s", name, o.problem)
+		}
+	}
+	if o.problem == "sosm" {
+		if o.species < 2 || o.species > 6 {
+			return cfg, fmt.Errorf("--species must be 2 to 6, got %d", o.species)
+		}
+		if !slices.Contains(flavourChoices, o.flavour) {
+			return cfg, fmt.Errorf("unknown --flavour %q (valid: %s)", o.flavour, strings.Join(flavourChoices, ", "))
+		}
+		if !slices.Contains(methodChoices, o.method) {
+			return cfg, fmt.Errorf("unknown --method %q (valid: %s)", o.method, strings.Join(methodChoices, ", "))
+		}
+		if o.maxIter < 1 {
+			return cfg, fmt.Errorf("--max-iterations must be positive, got %d", o.maxIter)
+		}
+		if o.groupS < 0 || math.IsNaN(o.groupS) || math.IsInf(o.groupS, 0) {
+			return cfg, fmt.Errorf("--group-s must be positive and finite (or 0 for the default), got %g", o.groupS)
+		}
+		cfg.Species, cfg.Flavour, cfg.Method = o.species, o.flavour, o.method
+		cfg.MaxIterations, cfg.S, cfg.Beta = o.maxIter, o.groupS, o.beta
+	}
+
 	return verification.Config{
-		Problem:   o.problem,
-		Variant:   variant,
-		Degree:    o.degree,
-		Levels:    o.levels,
-		Coarse:    o.coarse,
-		Perturbed: o.mesh == "perturbed",
-		Seed:      o.seed,
+		Species:       cfg.Species,
+		Flavour:       cfg.Flavour,
+		Method:        cfg.Method,
+		MaxIterations: cfg.MaxIterations,
+		S:             cfg.S,
+		Beta:          cfg.Beta,
+		Problem:       o.problem,
+		Variant:       variant,
+		Degree:        o.degree,
+		Levels:        o.levels,
+		Coarse:        o.coarse,
+		Perturbed:     o.mesh == "perturbed",
+		Seed:          o.seed,
 	}, nil
 }
 
@@ -281,7 +335,7 @@ func registerVerifyCompletions(cmd *cobra.Command, d deps) {
 	for _, v := range variantFlags {
 		must(cmd.RegisterFlagCompletionFunc(v.flag, func(*cobra.Command, []string, string) ([]cobra.Completion, cobra.ShellCompDirective) {
 			for _, p := range d.problems() {
-				if p.Name == v.problem {
+				if slices.Contains(v.problems, p.Name) {
 					return p.Variants, cobra.ShellCompDirectiveNoFileComp
 				}
 			}
@@ -298,7 +352,7 @@ func registerVerifyCompletions(cmd *cobra.Command, d deps) {
 			if len(p.Variants) > 0 {
 				variant = p.Variants[0]
 				for _, v := range variantFlags {
-					if s, _ := c.Flags().GetString(v.flag); v.problem == problem && s != "" {
+					if s, _ := c.Flags().GetString(v.flag); slices.Contains(v.problems, problem) && s != "" {
 						variant = s
 					}
 				}
@@ -320,14 +374,18 @@ func registerVerifyCompletions(cmd *cobra.Command, d deps) {
 // default taken from the registered problem when there is one.
 func variantUsage(v variantFlag, infos []verification.ProblemInfo) string {
 	choices := v.fallback
+	var defaults []string
 	for _, p := range infos {
-		if p.Name == v.problem {
+		if slices.Contains(v.problems, p.Name) && len(p.Variants) > 0 {
 			choices = p.Variants
+			defaults = append(defaults, p.Variants[0]+" for "+p.Name)
 		}
 	}
-	u := v.what + " for --problem " + v.problem + ": " + strings.Join(choices, " or ")
-	if len(choices) > 0 {
-		u += " (default " + choices[0] + ")"
+	sorted := slices.Clone(choices)
+	slices.Sort(sorted)
+	u := v.what + " for --problem " + strings.Join(v.problems, " or ") + ": " + strings.Join(sorted, " or ")
+	if len(defaults) > 0 {
+		u += " (default " + strings.Join(defaults, ", ") + ")"
 	}
 	return u
 }
@@ -363,7 +421,7 @@ func problemList(infos []verification.ProblemInfo) string {
 	for i, p := range infos {
 		names[i] = p.Name
 		for _, v := range variantFlags {
-			if v.problem == p.Name {
+			if slices.Contains(v.problems, p.Name) {
 				names[i] += " (--" + v.flag + ")"
 			}
 		}

@@ -1,0 +1,164 @@
+package physics
+
+import (
+	"math"
+
+	"mixwell/fem"
+)
+
+// Diagnostics are the checks a run reports after a solve (formulation note,
+// sections 3, 8 and 9), in the problem's scaled units.
+type Diagnostics struct {
+	// MassAverage is ||v - sum_i J_i/rho||_L2 / ||v||_L2 (absolute when
+	// v = 0), with rho from the frozen concentrations.
+	MassAverage float64
+	// Conservation is the largest element defect
+	// |int_T div J_i - M_i int_T r_i| over triangles and species, relative
+	// to the largest |int_T div J_i| (absolute when that is zero).
+	Conservation float64
+	// BoundaryFlux[tag][i] is the outward mass flux of species i through
+	// the boundary segment with that tag, int J_i . n ds.
+	BoundaryFlux map[int][]float64
+	// Production[i] is M_i int r_i dx, the mass produced inside.
+	Production []float64
+	// Balance is the largest |sum_tags BoundaryFlux[tag][i] - Production[i]|
+	// relative to the largest boundary flux of that species (absolute
+	// when every flux is zero).
+	Balance float64
+}
+
+// Diagnose computes the diagnostics of sol.
+func (d *Discretisation) Diagnose(sol *Solution) Diagnostics {
+	p, n, m := d.prob, d.n, d.m
+	w := &d.w
+	nf := w.nf
+	dg := Diagnostics{
+		MassAverage:  d.MassAverageResidual(sol),
+		BoundaryFlux: make(map[int][]float64),
+		Production:   make([]float64, n),
+	}
+	var worst, scale float64
+	r := make([]float64, n)
+	divs := make([]float64, n)
+	prods := make([]float64, n)
+	for t := 0; t < m.NumTriangles(); t++ {
+		af := fem.ElementMap(m, t)
+		d.fq.Reinit(&af)
+		fd, fs := d.F.Dofs(t), d.F.Signs(t)
+		clear(divs)
+		clear(prods)
+		for q := 0; q < d.fq.NQ; q++ {
+			W := d.fq.W[q]
+			clear(r)
+			if p.Source != nil && p.Source.Production != nil {
+				p.Source.Production(r, d.fq.X[q])
+			}
+			dv := d.fq.Div[q*nf : (q+1)*nf]
+			for i := 0; i < n; i++ {
+				jc := sol.Flux(i)
+				var v float64
+				for b := 0; b < nf; b++ {
+					v += fs[b] * jc[fd[b]] * dv[b]
+				}
+				divs[i] += W * v
+				prods[i] += W * p.Mixture.mass[i] * r[i]
+			}
+		}
+		for i := 0; i < n; i++ {
+			worst = math.Max(worst, math.Abs(divs[i]-prods[i]))
+			scale = math.Max(scale, math.Abs(divs[i]))
+			dg.Production[i] += prods[i]
+		}
+	}
+	dg.Conservation = worst
+	if scale > 0 {
+		dg.Conservation /= scale
+	}
+	for _, tag := range m.Tags() {
+		dg.BoundaryFlux[tag] = make([]float64, n)
+	}
+	for _, be := range d.bnd {
+		af := fem.ElementMap(m, be.t)
+		sgn := 1.0
+		if af.Det < 0 {
+			sgn = -1
+		}
+		fd, fs := d.F.Dofs(be.t), d.F.Signs(be.t)
+		nt := d.fe.Normal[be.local]
+		for i := 0; i < n; i++ {
+			jc := sol.Flux(i)
+			var v float64
+			for q := 0; q < d.fe.NQ; q++ {
+				for b := 0; b < nf; b++ {
+					v += d.fe.W[q] * nt[q*nf+b] * fs[b] * jc[fd[b]]
+				}
+			}
+			dg.BoundaryFlux[be.tag][i] += sgn * v
+		}
+	}
+	for i := 0; i < n; i++ {
+		var total, big float64
+		for _, f := range dg.BoundaryFlux {
+			total += f[i]
+			big = math.Max(big, math.Abs(f[i]))
+		}
+		def := math.Abs(total - dg.Production[i])
+		if big > 0 {
+			def /= big
+		}
+		dg.Balance = math.Max(dg.Balance, def)
+	}
+	return dg
+}
+
+// MassAverageResidual returns ||v - sum_i J_i/rho||_L2 / ||v||_L2 (absolute
+// when v = 0) of sol, with rho from its frozen concentrations.
+func (d *Discretisation) MassAverageResidual(sol *Solution) float64 {
+	if sol.frozen == nil {
+		return math.NaN()
+	}
+	m, n := d.m, d.n
+	w := &d.w
+	nv, nf := w.nv, w.nf
+	vx, vy := sol.Velocity(0), sol.Velocity(1)
+	var num, den float64
+	for t := 0; t < m.NumTriangles(); t++ {
+		af := fem.ElementMap(m, t)
+		d.vq.Reinit(&af)
+		d.pq.Reinit(&af)
+		d.fq.Reinit(&af)
+		if err := sol.frozen.concentrationsTo(w.c, w.gc, t, &af, 0); err != nil {
+			return math.NaN()
+		}
+		vd, fd, fs := d.V.Dofs(t), d.F.Dofs(t), d.F.Signs(t)
+		for q := 0; q < d.vq.NQ; q++ {
+			var v [2]float64
+			phi := d.vq.Val[q*nv : (q+1)*nv]
+			for a := 0; a < nv; a++ {
+				v[0] += vx[vd[a]] * phi[a]
+				v[1] += vy[vd[a]] * phi[a]
+			}
+			var rho float64
+			for i := 0; i < n; i++ {
+				rho += d.prob.Mixture.mass[i] * w.c[q*n+i]
+			}
+			e := v
+			fv := d.fq.Val[q*nf : (q+1)*nf]
+			for i := 0; i < n; i++ {
+				jc := sol.Flux(i)
+				for b := 0; b < nf; b++ {
+					co := fs[b] * jc[fd[b]] / rho
+					e[0] -= co * fv[b][0]
+					e[1] -= co * fv[b][1]
+				}
+			}
+			W := d.vq.W[q]
+			num += W * (e[0]*e[0] + e[1]*e[1])
+			den += W * (v[0]*v[0] + v[1]*v[1])
+		}
+	}
+	if den == 0 {
+		return math.Sqrt(num)
+	}
+	return math.Sqrt(num / den)
+}

@@ -1,0 +1,777 @@
+package physics
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"mixwell/fem"
+	"mixwell/mesh"
+	"mixwell/solver"
+)
+
+// Block numbers of the unknown vector in a Discretisation's layout:
+// velocity components, pressure, then the n species fluxes J_i, then the n
+// potentials mu_i.
+const (
+	blockVX = 0
+	blockVY = 1
+	blockP  = 2
+	blockJ0 = 3
+)
+
+// Discretisation is the mixed finite element discretisation of a Problem
+// (formulation note, sections 3 and 8): continuous P_{k+1} velocity,
+// continuous (Taylor–Hood) or discontinuous (Scott–Vogelius) P_k pressure,
+// BDM_{k+1} or RT_k species mass fluxes and discontinuous P_k potentials.
+// It owns the sparsity pattern, the essential data and the element tables,
+// all built once, and re-assembles the augmented system for every set of
+// frozen concentrations. Not safe for concurrent use.
+type Discretisation struct {
+	prob *Problem
+	n, k int
+	m    *mesh.Mesh
+
+	velEl  *fem.Lagrange
+	presEl fem.ScalarElement
+	fluxEl fem.DivElement
+	potEl  *fem.Discontinuous
+
+	// V, P, F, U are the velocity-component, pressure, flux and potential
+	// spaces.
+	V, P, F, U *fem.Space
+	lay        *fem.Layout
+	sys        *fem.PatternSystem
+
+	vq, pq, uq *fem.ScalarQuad
+	fq         *fem.DivQuad
+	ve, pe, fe *fem.EdgeQuad
+	qdeg       int
+
+	// pinnedP is the pressure unknown fixed to remove the constant
+	// pressure mode, or -1; pinnedMu[i] likewise for mu_i.
+	pinnedP  int
+	pinnedMu []int
+	// hasPotential[i] reports a potential boundary for species i.
+	hasPotential []bool
+	// edgeCond lists, per triangle with boundary edges, the local edges
+	// with natural data.
+	bnd []boundaryEdge
+
+	lu *solver.LU
+	w  assemblyWork
+}
+
+// boundaryEdge is a boundary edge seen from its triangle.
+type boundaryEdge struct {
+	t, local, edge int
+	tag            int
+	normal         [2]float64
+}
+
+// NewDiscretisation builds the spaces, the essential data and the sparsity
+// pattern of p. The error names the tag, species or field at fault.
+func NewDiscretisation(p *Problem) (*Discretisation, error) {
+	if err := p.validate(); err != nil {
+		return nil, err
+	}
+	k, n := p.Degree, p.Mixture.Len()
+	d := &Discretisation{prob: p, n: n, k: k, m: p.Mesh, pinnedP: -1}
+	var err error
+	if d.velEl, err = fem.NewLagrange(k + 1); err != nil {
+		return nil, err
+	}
+	if p.Pressure == ScottVogelius {
+		d.presEl, err = fem.NewDiscontinuous(k)
+	} else {
+		d.presEl, err = fem.NewLagrange(k)
+	}
+	if err != nil {
+		return nil, err
+	}
+	if p.Flux == RTFlux {
+		d.fluxEl, err = fem.NewRaviartThomas(k)
+	} else {
+		d.fluxEl, err = fem.NewBDM(k + 1)
+	}
+	if err != nil {
+		return nil, err
+	}
+	if d.potEl, err = fem.NewDiscontinuous(k); err != nil {
+		return nil, err
+	}
+	m := p.Mesh
+	d.V = fem.NewScalarSpace(m, d.velEl)
+	d.P = fem.NewScalarSpace(m, d.presEl)
+	d.F = fem.NewDivSpace(m, d.fluxEl)
+	d.U = fem.NewScalarSpace(m, d.potEl)
+	spaces := []*fem.Space{d.V, d.V, d.P}
+	for i := 0; i < n; i++ {
+		spaces = append(spaces, d.F)
+	}
+	for i := 0; i < n; i++ {
+		spaces = append(spaces, d.U)
+	}
+	d.lay = fem.NewLayout(spaces...)
+	d.qdeg = p.QuadratureDegree
+	if d.qdeg == 0 {
+		d.qdeg = 2*(k+1) + 4
+	}
+	d.vq = fem.NewScalarQuad(d.velEl, d.qdeg)
+	d.pq = fem.NewScalarQuad(d.presEl, d.qdeg)
+	d.uq = fem.NewScalarQuad(d.potEl, d.qdeg)
+	d.fq = fem.NewDivQuad(d.fluxEl, d.qdeg)
+	npts := k + 4
+	d.ve = fem.NewScalarEdgeQuad(d.velEl, npts)
+	d.pe = fem.NewScalarEdgeQuad(d.presEl, npts)
+	d.fe = fem.NewDivEdgeQuad(d.fluxEl, npts)
+	d.sys = fem.NewPatternSystem(d.lay.Len())
+	if err := d.fixEssential(); err != nil {
+		return nil, err
+	}
+	d.couple()
+	d.sys.Build()
+	d.w = newAssemblyWork(d)
+	return d, nil
+}
+
+// Layout returns the layout of the unknown vector: blocks vx, vy, p, J_1..J_n,
+// mu_1..mu_n.
+func (d *Discretisation) Layout() *fem.Layout { return d.lay }
+
+// Len returns the number of unknowns.
+func (d *Discretisation) Len() int { return d.lay.Len() }
+
+// Problem returns the problem being discretised.
+func (d *Discretisation) Problem() *Problem { return d.prob }
+
+// fixEssential fixes the essential unknowns: prescribed velocities, slip
+// components, prescribed normal fluxes, and one unknown of each field whose
+// constant is a null mode (formulation note, section 6).
+func (d *Discretisation) fixEssential() error {
+	p, m, n := d.prob, d.m, d.n
+	tags := m.Tags()
+	allVelocityEssential := true
+	d.hasPotential = make([]bool, n)
+	// Slip first, so that a given velocity takes precedence at corners
+	// (formulation note, section 10 item 7).
+	for _, t := range tags {
+		bc := p.Boundary[t]
+		if bc.Velocity.Kind != VelocitySlip {
+			continue
+		}
+		c, err := slipComponent(m, t)
+		if err != nil {
+			return err
+		}
+		dofs, err := d.V.BoundaryDofs(t)
+		if err != nil {
+			return err
+		}
+		for _, g := range dofs {
+			d.sys.Fix(d.lay.Offset(blockVX+c)+g, 0)
+		}
+	}
+	for _, t := range tags {
+		bc := p.Boundary[t]
+		switch bc.Velocity.Kind {
+		case VelocityTraction:
+			allVelocityEssential = false
+		case VelocityGiven:
+			f := bc.Velocity.Velocity
+			for c := 0; c < 2; c++ {
+				comp := c
+				dofs, vals, err := fem.BoundaryValues(d.V, []int{t}, func(x [2]float64) float64 {
+					if f == nil {
+						return 0
+					}
+					return f(x)[comp]
+				})
+				if err != nil {
+					return err
+				}
+				for a, g := range dofs {
+					d.sys.Fix(d.lay.Offset(blockVX+c)+g, vals[a])
+				}
+			}
+		}
+		for i, sc := range bc.Species {
+			if sc.Kind == SpeciesPotential {
+				d.hasPotential[i] = true
+				continue
+			}
+			g := sc.Flux
+			dofs, vals, err := fem.BoundaryNormalMoments(d.F, []int{t}, func(x, nrm [2]float64) float64 {
+				if g == nil {
+					return 0
+				}
+				return g(x, nrm)
+			})
+			if err != nil {
+				return err
+			}
+			for a, gd := range dofs {
+				d.sys.Fix(d.lay.Offset(blockJ0+i)+gd, vals[a])
+			}
+		}
+	}
+	if err := d.checkCompatibility(); err != nil {
+		return err
+	}
+	// Null modes. A constant potential of a species with flux data on the
+	// whole boundary, and a constant pressure when moreover the velocity
+	// is essential everywhere and no species has potential data, are
+	// exact null modes: fix one unknown (the constant mode of the first
+	// triangle for a discontinuous space) and restore the level after the
+	// solve.
+	anyPotential := false
+	d.pinnedMu = make([]int, n)
+	for i := 0; i < n; i++ {
+		d.pinnedMu[i] = -1
+		if d.hasPotential[i] {
+			anyPotential = true
+			continue
+		}
+		g := d.lay.Offset(blockJ0+n+i) + d.U.Dofs(0)[0]
+		d.sys.Fix(g, 0)
+		d.pinnedMu[i] = g
+	}
+	if allVelocityEssential && !anyPotential {
+		g := d.lay.Offset(blockP) + d.P.Dofs(0)[0]
+		d.sys.Fix(g, 0)
+		d.pinnedP = g
+	}
+	// Boundary edges with natural data.
+	for _, t := range tags {
+		for _, e := range m.BoundaryEdges(t) {
+			tri := m.EdgeTriangles[e][0]
+			le, err := fem.LocalEdge(m, tri, e)
+			if err != nil {
+				return err
+			}
+			nrm, _ := fem.OutwardNormal(m, e)
+			d.bnd = append(d.bnd, boundaryEdge{t: tri, local: le, edge: e, tag: t, normal: nrm})
+		}
+	}
+	return nil
+}
+
+// compatibilityTol is the relative mismatch between the net prescribed
+// boundary flux of a species without potential data and its production
+// above which the data are rejected (formulation note, section 6).
+const compatibilityTol = 1e-8
+
+// checkCompatibility rejects flux data that cannot hold: a species with
+// flux data on the whole boundary must leave as much mass through it as its
+// production makes, int_Gamma J_i.n = M_i int r_i.
+func (d *Discretisation) checkCompatibility() error {
+	p, m, n := d.prob, d.m, d.n
+	rule, err := fem.NewEdgeRule(2*d.k + 8)
+	if err != nil {
+		return err
+	}
+	for i := 0; i < n; i++ {
+		if d.hasPotential[i] {
+			continue
+		}
+		perTag := make(map[int]float64)
+		var net, scale float64
+		for _, e := range m.BoundaryEdges(0) {
+			tag := m.EdgeTags[e]
+			g := p.Boundary[tag].Species[i].Flux
+			if g == nil {
+				continue
+			}
+			nrm, length := fem.OutwardNormal(m, e)
+			a, b := m.Points[m.Edges[e][0]], m.Points[m.Edges[e][1]]
+			for q, s := range rule.Points {
+				x := [2]float64{a[0] + s*(b[0]-a[0]), a[1] + s*(b[1]-a[1])}
+				v := rule.Weights[q] * length * g(x, nrm)
+				perTag[tag] += v
+				net += v
+				scale += math.Abs(v)
+			}
+		}
+		var prod float64
+		if p.Source != nil && p.Source.Production != nil {
+			r := make([]float64, n)
+			for t := 0; t < m.NumTriangles(); t++ {
+				af := fem.ElementMap(m, t)
+				d.vq.Reinit(&af)
+				for q := 0; q < d.vq.NQ; q++ {
+					clear(r)
+					p.Source.Production(r, d.vq.X[q])
+					prod += d.vq.W[q] * p.Mixture.mass[i] * r[i]
+				}
+			}
+		}
+		scale = math.Max(scale, math.Abs(prod))
+		if math.Abs(net-prod) > compatibilityTol*math.Max(scale, 1e-300) && math.Abs(net-prod) > 0 {
+			tags := make([]int, 0, len(perTag))
+			for t := range perTag {
+				tags = append(tags, t)
+			}
+			sort.Ints(tags)
+			var parts []string
+			for _, t := range tags {
+				parts = append(parts, fmt.Sprintf("%s: %.6g", tagLabel(m, t), perTag[t]))
+			}
+			return fmt.Errorf("physics: species %q has flux data on the whole boundary, but the net outward flux %.6g (%s) does not equal its production %.6g: the data are incompatible (give a composition somewhere, or fix the fluxes)",
+				p.Mixture.Name(i), net, strings.Join(parts, ", "), prod)
+		}
+	}
+	return nil
+}
+
+// couple declares the non-zero blocks of the augmented system on every
+// triangle.
+func (d *Discretisation) couple() {
+	n := d.n
+	off := d.lay.Offset
+	for t := 0; t < d.m.NumTriangles(); t++ {
+		vd, pd, fd, ud := d.V.Dofs(t), d.P.Dofs(t), d.F.Dofs(t), d.U.Dofs(t)
+		for c := 0; c < 2; c++ {
+			for e := 0; e < 2; e++ {
+				d.sys.Couple(off(blockVX+c), vd, off(blockVX+e), vd)
+			}
+			d.sys.Couple(off(blockVX+c), vd, off(blockP), pd)
+			d.sys.Couple(off(blockP), pd, off(blockVX+c), vd)
+			for j := 0; j < n; j++ {
+				d.sys.Couple(off(blockVX+c), vd, off(blockJ0+j), fd)
+				d.sys.Couple(off(blockJ0+j), fd, off(blockVX+c), vd)
+			}
+		}
+		for i := 0; i < n; i++ {
+			d.sys.Couple(off(blockP), pd, off(blockJ0+i), fd)
+			d.sys.Couple(off(blockJ0+i), fd, off(blockP), pd)
+			for j := 0; j < n; j++ {
+				d.sys.Couple(off(blockJ0+i), fd, off(blockJ0+j), fd)
+			}
+			d.sys.Couple(off(blockJ0+n+i), ud, off(blockJ0+i), fd)
+			d.sys.Couple(off(blockJ0+i), fd, off(blockJ0+n+i), ud)
+		}
+	}
+}
+
+// frozenField supplies the frozen concentrations of one linear step: c and
+// grad c at the points of a point set of triangle t (set 0: the triangle
+// rule; set 1+i: the edge rule on local edge i, where only c is needed).
+// Index q*n+i is species i at point q.
+type frozenField interface {
+	concentrationsTo(c []float64, gradc [][2]float64, t int, af *fem.Affine, set int) error
+}
+
+// exactField freezes concentrations given as functions of position.
+type exactField struct {
+	d  *Discretisation
+	fn func(x [2]float64, c []float64, gradc [][2]float64)
+}
+
+func (e exactField) concentrationsTo(c []float64, gradc [][2]float64, t int, af *fem.Affine, set int) error {
+	n := e.d.n
+	pts := e.d.refPoints(set)
+	for q, xh := range pts {
+		e.fn(af.Point(xh), c[q*n:(q+1)*n], gradc[q*n:(q+1)*n])
+	}
+	return nil
+}
+
+// refPoints returns the reference points of a point set.
+func (d *Discretisation) refPoints(set int) [][2]float64 {
+	if set == 0 {
+		return d.vq.RefPoints()
+	}
+	return d.ve.Ref[set-1]
+}
+
+// assemblyWork holds the element buffers of the assembly.
+type assemblyWork struct {
+	nv, np, nf, nm, nq int
+	vv                 [2][2][]float64
+	vj, jv             [2][]float64
+	pv, vp             [2][]float64
+	pj, jp             []float64
+	jj                 [][]float64
+	uj, ju             []float64
+	fv                 [2][]float64
+	fj, fu             [][]float64
+	c                  []float64
+	gc                 [][2]float64
+	ce                 []float64
+	gce                [][2]float64
+	mm                 []float64
+	x                  []float64
+	r                  []float64
+	g                  [][2]float64
+	gram               []float64
+	gsign              []float64
+}
+
+func newAssemblyWork(d *Discretisation) assemblyWork {
+	n := d.n
+	w := assemblyWork{nv: d.V.LocalLen(), np: d.P.LocalLen(), nf: d.F.LocalLen(), nm: d.U.LocalLen(), nq: d.vq.NQ}
+	nv, np, nf, nm := w.nv, w.np, w.nf, w.nm
+	for c := 0; c < 2; c++ {
+		for e := 0; e < 2; e++ {
+			w.vv[c][e] = make([]float64, nv*nv)
+		}
+		w.vj[c] = make([]float64, nv*nf)
+		w.jv[c] = make([]float64, nf*nv)
+		w.pv[c] = make([]float64, np*nv)
+		w.vp[c] = make([]float64, nv*np)
+		w.fv[c] = make([]float64, nv)
+	}
+	w.pj = make([]float64, np*nf)
+	w.jp = make([]float64, nf*np)
+	w.jj = make([][]float64, n*n)
+	for i := range w.jj {
+		w.jj[i] = make([]float64, nf*nf)
+	}
+	w.uj = make([]float64, nm*nf)
+	w.ju = make([]float64, nf*nm)
+	w.fj = make([][]float64, n)
+	w.fu = make([][]float64, n)
+	for i := 0; i < n; i++ {
+		w.fj[i] = make([]float64, nf)
+		w.fu[i] = make([]float64, nm)
+	}
+	nqe := d.ve.NQ
+	w.c = make([]float64, w.nq*n)
+	w.gc = make([][2]float64, w.nq*n)
+	w.ce = make([]float64, nqe*n)
+	w.gce = make([][2]float64, nqe*n)
+	w.mm = make([]float64, n*n)
+	w.x = make([]float64, n)
+	w.r = make([]float64, n)
+	w.g = make([][2]float64, n)
+	w.gram = make([]float64, nf*nf)
+	w.gsign = make([]float64, nf)
+	return w
+}
+
+// assemble builds the augmented system of section 3 with the
+// concentrations of fr frozen. The matrix and right-hand side belong to the
+// pattern system.
+func (d *Discretisation) assemble(fr frozenField) (*solver.CSR, []float64, error) {
+	p, n, m := d.prob, d.n, d.m
+	w := &d.w
+	nv, np, nf, nm := w.nv, w.np, w.nf, w.nm
+	S, gam, beta := p.S, p.gamma(), p.SpeciesAugmentation
+	mix := p.Mixture
+	off := d.lay.Offset
+	d.sys.Reset()
+	for t := 0; t < m.NumTriangles(); t++ {
+		af := fem.ElementMap(m, t)
+		d.vq.Reinit(&af)
+		d.pq.Reinit(&af)
+		d.uq.Reinit(&af)
+		d.fq.Reinit(&af)
+		if err := fr.concentrationsTo(w.c, w.gc, t, &af, 0); err != nil {
+			return nil, nil, fmt.Errorf("physics: triangle %d: %w", t, err)
+		}
+		for c := 0; c < 2; c++ {
+			for e := 0; e < 2; e++ {
+				clear(w.vv[c][e])
+			}
+			clear(w.vj[c])
+			clear(w.jv[c])
+			clear(w.pv[c])
+			clear(w.fv[c])
+		}
+		clear(w.pj)
+		for i := range w.jj {
+			clear(w.jj[i])
+		}
+		clear(w.uj)
+		for i := 0; i < n; i++ {
+			clear(w.fj[i])
+			clear(w.fu[i])
+		}
+		for q := 0; q < d.vq.NQ; q++ {
+			W := d.vq.W[q]
+			cq := w.c[q*n : (q+1)*n]
+			gq := w.gc[q*n : (q+1)*n]
+			var rho float64
+			var grho [2]float64
+			var cT float64
+			for i, ci := range cq {
+				if !(ci > 0) {
+					return nil, nil, &StateError{Model: "frozen state", Species: mix.Name(i),
+						Reason: fmt.Sprintf("concentration %g at (%g, %g) in triangle %d is not positive", ci, d.vq.X[q][0], d.vq.X[q][1], t)}
+				}
+				Mi := mix.mass[i]
+				rho += Mi * ci
+				grho[0] += Mi * gq[i][0]
+				grho[1] += Mi * gq[i][1]
+				cT += ci
+			}
+			for i := range cq {
+				w.x[i] = cq[i] / cT
+			}
+			eta := p.Viscosity.Viscosity(w.x)
+			lam := p.BulkViscosity - 2*eta/3
+			mix.TransportMatrixTo(w.mm, cq, 1)
+			xq := d.vq.X[q]
+			var force [2]float64
+			if p.Source != nil && p.Source.Force != nil {
+				force = p.Source.Force(xq)
+			}
+			force[0] += rho * p.Gravity[0]
+			force[1] += rho * p.Gravity[1]
+			clear(w.r)
+			clear(w.g)
+			if p.Source != nil && p.Source.Production != nil {
+				p.Source.Production(w.r, xq)
+			}
+			if p.Source != nil && p.Source.Residual != nil {
+				p.Source.Residual(w.g, xq)
+			}
+			phi := d.vq.Val[q*nv : (q+1)*nv]
+			gphi := d.vq.Grad[q*nv : (q+1)*nv]
+			psi := d.pq.Val[q*np : (q+1)*np]
+			chi := d.uq.Val[q*nm : (q+1)*nm]
+			fv := d.fq.Val[q*nf : (q+1)*nf]
+			fdiv := d.fq.Div[q*nf : (q+1)*nf]
+			// The momentum and mass-constraint rows are divided by S (their
+			// weight in the species units of the transport term), so that
+			// every block is of unit size except the physical O(S)
+			// pressure coupling of the species rows: the pivots of the
+			// sparse LU then compare entries of like size, also at S = 1e-13.
+			sw := W
+			// Velocity–velocity: 2 eta eps:eps + lambda div div + gamma u.v.
+			for a := 0; a < nv; a++ {
+				ga := gphi[a]
+				for b := 0; b < nv; b++ {
+					gb := gphi[b]
+					gg := ga[0]*gb[0] + ga[1]*gb[1]
+					mass := gam * phi[a] * phi[b]
+					for c := 0; c < 2; c++ {
+						for e := 0; e < 2; e++ {
+							val := eta*ga[e]*gb[c] + lam*ga[c]*gb[e]
+							if c == e {
+								val += eta*gg + mass
+							}
+							w.vv[c][e][a*nv+b] += sw * val
+						}
+					}
+				}
+				w.fv[0][a] += sw * force[0] * phi[a]
+				w.fv[1][a] += sw * force[1] * phi[a]
+				// Velocity–flux: -gamma u . J_j / rho (same for every j),
+				// and flux–velocity -(S gamma + beta) K_i . v / rho.
+				for b := 0; b < nf; b++ {
+					f := -sw * gam * phi[a] / rho
+					w.vj[0][a*nf+b] += f * fv[b][0]
+					w.vj[1][a*nf+b] += f * fv[b][1]
+					f = -W * (S*gam + beta) * phi[a] / rho
+					w.jv[0][b*nv+a] += f * fv[b][0]
+					w.jv[1][b*nv+a] += f * fv[b][1]
+				}
+				// Pressure–velocity: -q div v.
+				for r := 0; r < np; r++ {
+					w.pv[0][r*nv+a] -= sw * psi[r] * ga[0]
+					w.pv[1][r*nv+a] -= sw * psi[r] * ga[1]
+				}
+			}
+			// Pressure–flux: q div(J/rho) = q (div J / rho - J . grad rho / rho^2);
+			// its transpose in the species rows carries the factor S.
+			for r := 0; r < np; r++ {
+				f := sw * psi[r] / rho
+				for b := 0; b < nf; b++ {
+					w.pj[r*nf+b] += f * (fdiv[b] - (fv[b][0]*grho[0]+fv[b][1]*grho[1])/rho)
+				}
+			}
+			// Flux–flux: M_ij / (rho_i rho_j) + S gamma / rho^2.
+			for a := 0; a < nf; a++ {
+				for b := a; b < nf; b++ {
+					v := W * (fv[a][0]*fv[b][0] + fv[a][1]*fv[b][1])
+					w.gram[a*nf+b] = v
+					w.gram[b*nf+a] = v
+				}
+			}
+			aug := (S*gam + beta) / (rho * rho)
+			for i := 0; i < n; i++ {
+				ri := mix.mass[i] * cq[i]
+				for j := 0; j < n; j++ {
+					rj := mix.mass[j] * cq[j]
+					coef := w.mm[i*n+j]/(ri*rj) + aug
+					blk := w.jj[i*n+j]
+					for ab, g := range w.gram {
+						blk[ab] += coef * g
+					}
+				}
+				// Sources: g_i . K_i / rho_i and -nu_i r_i.
+				gi := w.g[i]
+				if gi != [2]float64{} {
+					for a := 0; a < nf; a++ {
+						w.fj[i][a] += W * (gi[0]*fv[a][0] + gi[1]*fv[a][1]) / ri
+					}
+				}
+				if w.r[i] != 0 {
+					for s := 0; s < nm; s++ {
+						w.fu[i][s] -= W * chi[s] * w.r[i]
+					}
+				}
+			}
+			// Potential–flux: -nu div K (the 1/M_i is applied per species).
+			for s := 0; s < nm; s++ {
+				f := -W * chi[s]
+				for b := 0; b < nf; b++ {
+					w.uj[s*nf+b] += f * fdiv[b]
+				}
+			}
+		}
+		if err := d.boundaryTerms(fr, t, &af); err != nil {
+			return nil, nil, err
+		}
+		// Scatter.
+		vd, pd, fd, ud := d.V.Dofs(t), d.P.Dofs(t), d.F.Dofs(t), d.U.Dofs(t)
+		fs := d.F.Signs(t)
+		for c := 0; c < 2; c++ {
+			for e := 0; e < 2; e++ {
+				d.sys.AddMatrix(off(blockVX+c), vd, nil, off(blockVX+e), vd, nil, w.vv[c][e])
+			}
+			transposeTo(w.vp[c], w.pv[c], np, nv)
+			d.sys.AddMatrix(off(blockP), pd, nil, off(blockVX+c), vd, nil, w.pv[c])
+			d.sys.AddMatrix(off(blockVX+c), vd, nil, off(blockP), pd, nil, w.vp[c])
+			for j := 0; j < n; j++ {
+				d.sys.AddMatrix(off(blockVX+c), vd, nil, off(blockJ0+j), fd, fs, w.vj[c])
+				d.sys.AddMatrix(off(blockJ0+j), fd, fs, off(blockVX+c), vd, nil, w.jv[c])
+			}
+			d.sys.AddVector(off(blockVX+c), vd, nil, w.fv[c])
+		}
+		transposeTo(w.jp, w.pj, np, nf)
+		for i := range w.jp {
+			w.jp[i] *= S
+		}
+		transposeTo(w.ju, w.uj, nm, nf)
+		for i := 0; i < n; i++ {
+			d.sys.AddMatrix(off(blockP), pd, nil, off(blockJ0+i), fd, fs, w.pj)
+			d.sys.AddMatrix(off(blockJ0+i), fd, fs, off(blockP), pd, nil, w.jp)
+			for j := 0; j < n; j++ {
+				d.sys.AddMatrix(off(blockJ0+i), fd, fs, off(blockJ0+j), fd, fs, w.jj[i*n+j])
+			}
+			inv := 1 / mix.mass[i]
+			scaleInto(w.gram[:nm*nf], w.uj, inv) // reuse gram as scratch
+			d.sys.AddMatrix(off(blockJ0+n+i), ud, nil, off(blockJ0+i), fd, fs, w.gram[:nm*nf])
+			scaleInto(w.gram[:nf*nm], w.ju, inv)
+			d.sys.AddMatrix(off(blockJ0+i), fd, fs, off(blockJ0+n+i), ud, nil, w.gram[:nf*nm])
+			d.sys.AddVector(off(blockJ0+i), fd, fs, w.fj[i])
+			d.sys.AddVector(off(blockJ0+n+i), ud, nil, w.fu[i])
+		}
+	}
+	A, b := d.sys.Matrix()
+	return A, b, nil
+}
+
+// boundaryTerms adds the natural boundary data of triangle t's boundary
+// edges to the element vectors: the traction on open boundaries and the
+// potential term (S p_b / rho - mu_b / M_i) K_i . n of species with
+// potential data.
+func (d *Discretisation) boundaryTerms(fr frozenField, t int, af *fem.Affine) error {
+	m := d.m
+	tri := m.TriangleEdges[t]
+	w := &d.w
+	p, n := d.prob, d.n
+	nv, nf := w.nv, w.nf
+	for le, e := range tri {
+		if !m.IsBoundary(e) {
+			continue
+		}
+		tag := m.EdgeTags[e]
+		bc := p.Boundary[tag]
+		nrm, length := fem.OutwardNormal(m, e)
+		if bc.Velocity.Kind == VelocityTraction && bc.Velocity.Traction != nil {
+			vals := d.ve.Value[le]
+			for q := 0; q < d.ve.NQ; q++ {
+				xq := af.Point(d.ve.Ref[le][q])
+				tr := bc.Velocity.Traction(xq, nrm)
+				f := length * d.ve.W[q]
+				for a := 0; a < nv; a++ {
+					w.fv[0][a] += f * tr[0] * vals[q*nv+a]
+					w.fv[1][a] += f * tr[1] * vals[q*nv+a]
+				}
+			}
+		}
+		any := false
+		for _, sc := range bc.Species {
+			if sc.Kind == SpeciesPotential {
+				any = true
+			}
+		}
+		if !any {
+			continue
+		}
+		if err := fr.concentrationsTo(w.ce, w.gce, t, af, 1+le); err != nil {
+			return fmt.Errorf("physics: triangle %d, edge %d: %w", t, e, err)
+		}
+		sgn := 1.0
+		if af.Det < 0 {
+			sgn = -1
+		}
+		nt := d.fe.Normal[le]
+		for q := 0; q < d.fe.NQ; q++ {
+			xq := af.Point(d.fe.Ref[le][q])
+			var rho float64
+			for i := 0; i < n; i++ {
+				rho += p.Mixture.mass[i] * w.ce[q*n+i]
+			}
+			pb := 0.0
+			if bc.Pressure != nil {
+				pb = bc.Pressure(xq)
+			}
+			for i, sc := range bc.Species {
+				if sc.Kind != SpeciesPotential {
+					continue
+				}
+				v := sgn * d.fe.W[q] * (p.S*pb/rho - sc.Potential(xq)/p.Mixture.mass[i])
+				for a := 0; a < nf; a++ {
+					w.fj[i][a] += v * nt[q*nf+a]
+				}
+			}
+		}
+	}
+	return nil
+}
+
+// transposeTo writes the transpose of the r by c row-major matrix a into dst.
+func transposeTo(dst, a []float64, r, c int) {
+	for i := 0; i < r; i++ {
+		for j := 0; j < c; j++ {
+			dst[j*r+i] = a[i*c+j]
+		}
+	}
+}
+
+// scaleInto writes s*a into dst.
+func scaleInto(dst, a []float64, s float64) {
+	for i, v := range a {
+		dst[i] = s * v
+	}
+}
+
+// solveLinear factorises (or refactorises, keeping the symbolic analysis)
+// and solves the assembled system, returning the solution and the relative
+// residual.
+func (d *Discretisation) solveLinear(A *solver.CSR, b []float64) ([]float64, float64, error) {
+	var err error
+	if d.lu == nil {
+		d.lu, err = solver.FactorLU(A, nil)
+	} else {
+		err = d.lu.Refactor(A)
+	}
+	if err != nil {
+		d.lu = nil
+		return nil, 0, fmt.Errorf("physics: factorising the SOSM system (%d unknowns): %w", A.NNZ(), err)
+	}
+	x := make([]float64, len(b))
+	res, err := d.lu.SolveRefinedTo(x, A, b, 2)
+	if err != nil {
+		return nil, 0, fmt.Errorf("physics: solving the SOSM system: %w", err)
+	}
+	if math.IsNaN(res) || res > 1e-6 {
+		return nil, res, fmt.Errorf("physics: SOSM linear solve inaccurate: relative residual %.3g", res)
+	}
+	return x, res, nil
+}

@@ -1,0 +1,377 @@
+package physics
+
+import (
+	"fmt"
+	"math"
+
+	"mixwell/fem"
+	"mixwell/solver"
+)
+
+// ConcentrationUpdate selects how the Picard map turns the post-processed
+// potentials into the next frozen concentrations (formulation note,
+// section 4, step 4).
+type ConcentrationUpdate int
+
+const (
+	// PotentialProjection L2-projects each post-processed potential onto
+	// the continuous velocity-degree Lagrange space and evaluates the
+	// closure there: c > 0 by construction (the default).
+	PotentialProjection ConcentrationUpdate = iota
+	// ConcentrationProjection L2-projects c_i(mu*, p) onto that space. It
+	// can go negative; such values are clipped to a floor and counted.
+	ConcentrationProjection
+)
+
+// String names the update.
+func (u ConcentrationUpdate) String() string {
+	if u == ConcentrationProjection {
+		return "concentration"
+	}
+	return "potential"
+}
+
+// picard is the Picard map of a Discretisation: its state is the
+// continuous P_{k+1} field of each species (the projected potential, or the
+// projected concentration) followed by the pressure coefficients.
+type picard struct {
+	d       *Discretisation
+	closure Closure
+	p0      float64 // absolute reference pressure, thermodynamic units
+	update  ConcentrationUpdate
+	floor   float64
+
+	massLU *solver.LU // mass matrix of the velocity space
+	post   *fem.ScalarQuad
+	postEl *fem.Discontinuous
+
+	last    *Solution
+	clipped int
+
+	// work
+	mu, c, dcdmu, dcdp []float64
+	gmu                [][2]float64
+	star               []float64 // DG_{k+1} coefficients, n blocks of U*.Len
+	rhs                []float64
+}
+
+// stateLen returns the length of the Picard state.
+func (pm *picard) stateLen() int { return pm.d.n*pm.d.V.Len() + pm.d.P.Len() }
+
+func newPicard(d *Discretisation, closure Closure, p0 float64, update ConcentrationUpdate, floor float64) (*picard, error) {
+	if closure.Len() != d.n {
+		return nil, fmt.Errorf("physics: closure has %d species, the problem %d", closure.Len(), d.n)
+	}
+	pm := &picard{d: d, closure: closure, p0: p0, update: update, floor: floor}
+	el, err := fem.NewDiscontinuous(d.k + 1)
+	if err != nil {
+		return nil, err
+	}
+	pm.postEl = el
+	pm.post = fem.NewScalarQuad(el, d.qdeg)
+	// Mass matrix of the velocity space, factorised once.
+	V := d.V
+	nv := V.LocalLen()
+	sys := fem.NewSystem(V.Len(), d.m.NumTriangles()*nv*nv)
+	loc := make([]float64, nv*nv)
+	for t := 0; t < d.m.NumTriangles(); t++ {
+		af := fem.ElementMap(d.m, t)
+		d.vq.Reinit(&af)
+		clear(loc)
+		for q := 0; q < d.vq.NQ; q++ {
+			phi := d.vq.Val[q*nv : (q+1)*nv]
+			for a := 0; a < nv; a++ {
+				for b := 0; b < nv; b++ {
+					loc[a*nv+b] += d.vq.W[q] * phi[a] * phi[b]
+				}
+			}
+		}
+		sys.AddMatrix(0, V.Dofs(t), nil, 0, V.Dofs(t), nil, loc)
+	}
+	M, _ := sys.Matrix()
+	if pm.massLU, err = solver.FactorLU(M, nil); err != nil {
+		return nil, fmt.Errorf("physics: factorising the mass matrix: %w", err)
+	}
+	n := d.n
+	pm.mu = make([]float64, n)
+	pm.c = make([]float64, n)
+	pm.dcdmu = make([]float64, n*n)
+	pm.dcdp = make([]float64, n)
+	pm.gmu = make([][2]float64, n)
+	pm.star = make([]float64, n*d.m.NumTriangles()*el.Len())
+	pm.rhs = make([]float64, V.Len())
+	return pm, nil
+}
+
+// stateField freezes the concentrations of a Picard state.
+type stateField struct {
+	pm *picard
+	x  []float64
+}
+
+func (sf stateField) concentrationsTo(c []float64, gradc [][2]float64, t int, af *fem.Affine, set int) error {
+	pm := sf.pm
+	d := pm.d
+	n := d.n
+	nV := d.V.Len()
+	vd, pd := d.V.Dofs(t), d.P.Dofs(t)
+	pc := sf.x[n*nV:]
+	nv, np := len(vd), len(pd)
+	var nq int
+	var vval, pval []float64
+	var vgrad, pgrad [][2]float64
+	if set == 0 {
+		nq = d.vq.NQ
+		vval, vgrad, pval, pgrad = d.vq.Val, d.vq.Grad, d.pq.Val, d.pq.Grad
+	} else {
+		nq = d.ve.NQ
+		vval, pval = d.ve.Value[set-1], d.pe.Value[set-1]
+	}
+	S := d.prob.S
+	for q := 0; q < nq; q++ {
+		var pv float64
+		var gp [2]float64
+		for a := 0; a < np; a++ {
+			co := pc[pd[a]]
+			pv += co * pval[q*np+a]
+			if pgrad != nil {
+				gp[0] += co * pgrad[q*np+a][0]
+				gp[1] += co * pgrad[q*np+a][1]
+			}
+		}
+		for i := 0; i < n; i++ {
+			blk := sf.x[i*nV : (i+1)*nV]
+			var v float64
+			var g [2]float64
+			for a := 0; a < nv; a++ {
+				co := blk[vd[a]]
+				v += co * vval[q*nv+a]
+				if vgrad != nil {
+					g[0] += co * vgrad[q*nv+a][0]
+					g[1] += co * vgrad[q*nv+a][1]
+				}
+			}
+			pm.mu[i] = v
+			pm.gmu[i] = g
+		}
+		cq := c[q*n : (q+1)*n]
+		gq := gradc[q*n : (q+1)*n]
+		if pm.update == ConcentrationProjection {
+			for i := 0; i < n; i++ {
+				cq[i] = pm.mu[i]
+				gq[i] = pm.gmu[i]
+				if cq[i] < pm.floor {
+					cq[i] = pm.floor
+					gq[i] = [2]float64{}
+					pm.clipped++
+				}
+			}
+			continue
+		}
+		if err := pm.closure.ConcentrationsTo(cq, pm.dcdmu, pm.dcdp, pm.mu, pm.p0+S*pv); err != nil {
+			return err
+		}
+		for i := 0; i < n; i++ {
+			g := [2]float64{pm.dcdp[i] * S * gp[0], pm.dcdp[i] * S * gp[1]}
+			for j := 0; j < n; j++ {
+				g[0] += pm.dcdmu[i*n+j] * pm.gmu[j][0]
+				g[1] += pm.dcdmu[i*n+j] * pm.gmu[j][1]
+			}
+			gq[i] = g
+		}
+	}
+	return nil
+}
+
+// apply evaluates the Picard map: dst = G(x).
+func (pm *picard) apply(dst, x []float64) error {
+	d := pm.d
+	// The solution keeps its frozen field: copy the state, which the
+	// iteration may overwrite.
+	fr := stateField{pm: pm, x: append([]float64(nil), x...)}
+	pm.clipped = 0
+	A, b, err := d.assemble(fr)
+	if err != nil {
+		return err
+	}
+	y, res, err := d.solveLinear(A, b)
+	if err != nil {
+		return err
+	}
+	sol := &Solution{d: d, X: y, LinearResidual: res, frozen: fr}
+	d.restoreLevels(sol)
+	pm.last = sol
+	if err := pm.postProcess(sol, fr); err != nil {
+		return err
+	}
+	// Project mu* (or c(mu*, p)) onto the velocity space.
+	n, nV := d.n, d.V.Len()
+	for i := 0; i < n; i++ {
+		pm.projectStar(dst[i*nV:(i+1)*nV], i, sol)
+	}
+	copy(dst[n*nV:], sol.Pressure())
+	return nil
+}
+
+// postProcess computes, element by element, mu_i* in P_{k+1} with the
+// element mean of mu_i and the gradient fitted in least squares to the OSM
+// row solved for the gradient,
+//
+//	grad mu_i = (S w_i grad p - sum_j M_ij J_j / rho_j + g_i) / c_i,
+//
+// with the frozen coefficients (formulation note, section 4, step 3; in the
+// spirit of Stenberg, "Postprocessing schemes for some mixed finite
+// elements", RAIRO M2AN 25 (1991)).
+func (pm *picard) postProcess(sol *Solution, fr frozenField) error {
+	d := pm.d
+	p, n, m := d.prob, d.n, d.m
+	w := &d.w
+	nq := d.vq.NQ
+	ne := pm.postEl.Len()
+	nm, nf, np := w.nm, w.nf, w.np
+	kmat := make([]float64, (ne-1)*(ne-1))
+	rhs := make([]float64, (ne-1)*n)
+	piv := make([]int, ne-1)
+	jq := make([][2]float64, n)
+	pc := sol.Pressure()
+	for t := 0; t < m.NumTriangles(); t++ {
+		af := fem.ElementMap(m, t)
+		d.vq.Reinit(&af)
+		d.pq.Reinit(&af)
+		d.uq.Reinit(&af)
+		d.fq.Reinit(&af)
+		pm.post.Reinit(&af)
+		if err := fr.concentrationsTo(w.c, w.gc, t, &af, 0); err != nil {
+			return err
+		}
+		clear(kmat)
+		clear(rhs)
+		fd, fs, pd, ud := d.F.Dofs(t), d.F.Signs(t), d.P.Dofs(t), d.U.Dofs(t)
+		means := make([]float64, n)
+		var area float64
+		for q := 0; q < nq; q++ {
+			W := d.vq.W[q]
+			area += W
+			cq := w.c[q*n : (q+1)*n]
+			var rho float64
+			for i, ci := range cq {
+				rho += p.Mixture.mass[i] * ci
+			}
+			p.Mixture.TransportMatrixTo(w.mm, cq, 1)
+			var gp [2]float64
+			for a := 0; a < np; a++ {
+				g := d.pq.Grad[q*np+a]
+				gp[0] += pc[pd[a]] * g[0]
+				gp[1] += pc[pd[a]] * g[1]
+			}
+			fv := d.fq.Val[q*nf : (q+1)*nf]
+			for j := 0; j < n; j++ {
+				jc := sol.Flux(j)
+				var v [2]float64
+				for b := 0; b < nf; b++ {
+					co := fs[b] * jc[fd[b]]
+					v[0] += co * fv[b][0]
+					v[1] += co * fv[b][1]
+				}
+				jq[j] = v
+			}
+			clear(w.g)
+			if p.Source != nil && p.Source.Residual != nil {
+				p.Source.Residual(w.g, d.vq.X[q])
+			}
+			chi := d.uq.Val[q*nm : (q+1)*nm]
+			gpost := pm.post.Grad[q*ne : (q+1)*ne]
+			for b := 1; b < ne; b++ {
+				for c := 1; c < ne; c++ {
+					kmat[(b-1)*(ne-1)+c-1] += W * (gpost[b][0]*gpost[c][0] + gpost[b][1]*gpost[c][1])
+				}
+			}
+			for i := 0; i < n; i++ {
+				wi := p.Mixture.mass[i] * cq[i] / rho
+				gi := [2]float64{p.S*wi*gp[0] + w.g[i][0], p.S*wi*gp[1] + w.g[i][1]}
+				for j := 0; j < n; j++ {
+					rj := p.Mixture.mass[j] * cq[j]
+					gi[0] -= w.mm[i*n+j] * jq[j][0] / rj
+					gi[1] -= w.mm[i*n+j] * jq[j][1] / rj
+				}
+				gi[0] /= cq[i]
+				gi[1] /= cq[i]
+				for c := 1; c < ne; c++ {
+					rhs[i*(ne-1)+c-1] += W * (gi[0]*gpost[c][0] + gi[1]*gpost[c][1])
+				}
+				uc := sol.Potential(i)
+				var mv float64
+				for s := 0; s < nm; s++ {
+					mv += uc[ud[s]] * chi[s]
+				}
+				means[i] += W * mv
+			}
+		}
+		if !luFactor(kmat, ne-1, piv) {
+			return fmt.Errorf("physics: post-processing: singular gradient matrix on triangle %d", t)
+		}
+		// The constant Dubiner function has the value phi0 on every
+		// triangle, and the others have zero mean.
+		phi0 := pm.post.Val[0]
+		for i := 0; i < n; i++ {
+			coef := pm.star[(i*m.NumTriangles()+t)*ne : (i*m.NumTriangles()+t+1)*ne]
+			r := rhs[i*(ne-1) : (i+1)*(ne-1)]
+			luSolve(kmat, ne-1, piv, r)
+			coef[0] = means[i] / area / phi0
+			copy(coef[1:], r)
+		}
+	}
+	return nil
+}
+
+// projectStar writes into dst the L2 projection onto the velocity space of
+// mu_i* (potential update) or of c_i(mu*, p) (concentration update).
+func (pm *picard) projectStar(dst []float64, i int, sol *Solution) {
+	d := pm.d
+	m, n := d.m, d.n
+	nv := d.V.LocalLen()
+	ne := pm.postEl.Len()
+	np := d.P.LocalLen()
+	clear(pm.rhs)
+	pc := sol.Pressure()
+	for t := 0; t < m.NumTriangles(); t++ {
+		af := fem.ElementMap(m, t)
+		d.vq.Reinit(&af)
+		vd, pd := d.V.Dofs(t), d.P.Dofs(t)
+		for q := 0; q < d.vq.NQ; q++ {
+			var val float64
+			if pm.update == ConcentrationProjection {
+				for j := 0; j < n; j++ {
+					coef := pm.star[(j*m.NumTriangles()+t)*ne : (j*m.NumTriangles()+t+1)*ne]
+					var v float64
+					for b, cb := range coef {
+						v += cb * pm.post.Val[q*ne+b]
+					}
+					pm.mu[j] = v
+				}
+				var pv float64
+				for a := 0; a < np; a++ {
+					pv += pc[pd[a]] * d.pq.Val[q*np+a]
+				}
+				if err := pm.closure.ConcentrationsTo(pm.c, nil, nil, pm.mu, pm.p0+d.prob.S*pv); err != nil {
+					val = math.NaN()
+				} else {
+					val = pm.c[i]
+				}
+			} else {
+				coef := pm.star[(i*m.NumTriangles()+t)*ne : (i*m.NumTriangles()+t+1)*ne]
+				for b, cb := range coef {
+					val += cb * pm.post.Val[q*ne+b]
+				}
+			}
+			f := d.vq.W[q] * val
+			phi := d.vq.Val[q*nv : (q+1)*nv]
+			for a := 0; a < nv; a++ {
+				pm.rhs[vd[a]] += f * phi[a]
+			}
+		}
+	}
+	if err := pm.massLU.SolveTo(dst, pm.rhs); err != nil {
+		panic(fmt.Sprintf("physics: mass-matrix solve: %v", err))
+	}
+}
