@@ -40,6 +40,18 @@
 // contiguously per parent and record the parent of every triangle in Parent.
 // Boundary edges of children inherit their parent edge's tag.
 //
+// # Meshes of polygonal domains
+//
+// A Domain is a polygon with polygonal holes whose boundary segments carry
+// tags. ConstrainedDelaunay triangulates it without adding points;
+// Triangulate adds points by Delaunay refinement until the triangles meet a
+// minimum angle (default 25 degrees), an optional area bound and optional
+// geometric grading toward tagged segments (BoundaryLayer), and Delaunay
+// triangulates a point set. Their meshes number the input points first,
+// give every boundary edge its segment's tag and are deterministic. The
+// geometric decisions use exact orientation and in-circle predicates, so
+// degenerate input (collinear or cocircular points) is handled exactly.
+//
 // # Text format
 //
 // Read and Write use a line-oriented text format of our own, version 1:
