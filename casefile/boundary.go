@@ -22,7 +22,7 @@ var speciesKeys = map[SpeciesKind][]string{
 	Impermeable:      {"type"},
 	Flux:             {"type", "basis", "fluxes"},
 	ConvectiveInflow: {"type", "mole_fractions"},
-	Composition:      {"type", "mole_fractions"},
+	Composition:      {"type", "mole_fractions", "impermeable"},
 	Outflow:          {"type"},
 }
 
@@ -216,6 +216,34 @@ func (d *decoder) speciesBC(n *yaml.Node, path string, sp *speciesSet, boundary 
 	case ConvectiveInflow, Composition:
 		if xn := d.require(m, "mole_fractions", "give the composition as mole fractions"); xn != nil {
 			s.MoleFractions, _ = d.composition(xn, join(path, "mole_fractions"), sp, "on boundary \""+boundary+"\"")
+		}
+		if in := m.get("impermeable"); in != nil {
+			ip := join(path, "impermeable")
+			if in.Kind != yaml.SequenceNode {
+				d.fail(in, ip, "give a list of species names, e.g. [air]")
+				return
+			}
+			s.Impermeable = make([]bool, len(sp.names))
+			count := 0
+			for _, k := range in.Content {
+				if k.Kind != yaml.ScalarNode {
+					d.fail(k, ip, "give species names")
+					return
+				}
+				i, ok := sp.lookup(d, k, ip)
+				if !ok {
+					return
+				}
+				if s.Impermeable[i] {
+					d.fail(k, ip, "species %q listed twice", k.Value)
+					return
+				}
+				s.Impermeable[i] = true
+				count++
+			}
+			if count == len(sp.names) {
+				d.fail(in, ip, "every species is impermeable; use type impermeable instead")
+			}
 		}
 	}
 }

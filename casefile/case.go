@@ -341,6 +341,11 @@ type SpeciesBC struct {
 	// within 1e-9; zeros are kept (the solver raises them to
 	// Solver.MoleFractionFloor) (convective-inflow and composition only).
 	MoleFractions []float64
+	// Impermeable marks, per species, the species of a composition
+	// boundary that do not cross it (zero normal flux instead of the
+	// composition), e.g. air at the surface of an evaporating liquid in
+	// which it does not dissolve; nil when none (composition only).
+	Impermeable []bool
 }
 
 // Boundary is the condition on one named boundary.

@@ -118,7 +118,17 @@ func (c *Case) speciesSummary(s SpeciesBC) string {
 		}
 		return fmt.Sprintf("%s flux (%s)", s.Basis, list(s.Fluxes, unit))
 	case Composition, ConvectiveInflow:
-		return fmt.Sprintf("%s (%s)", s.Kind, list(s.MoleFractions, ""))
+		out := fmt.Sprintf("%s (%s)", s.Kind, list(s.MoleFractions, ""))
+		var imp []string
+		for i, b := range s.Impermeable {
+			if b {
+				imp = append(imp, c.Species[i].Name)
+			}
+		}
+		if len(imp) > 0 {
+			out += ", impermeable to " + strings.Join(imp, ", ")
+		}
+		return out
 	}
 	return string(s.Kind)
 }

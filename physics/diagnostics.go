@@ -9,8 +9,8 @@ import (
 // Diagnostics are the checks a run reports after a solve (formulation note,
 // sections 3, 8 and 9), in the problem's scaled units.
 type Diagnostics struct {
-	// MassAverage is ||v - sum_i J_i/rho||_L2 / ||v||_L2 (absolute when
-	// v = 0), with rho from the frozen concentrations.
+	// MassAverage is ||v - sum_i J_i/rho||_L2 relative to the largest of
+	// ||v||_L2 and ||J_i/rho||_L2 (see MassAverageResidual).
 	MassAverage float64
 	// Conservation is the largest element defect
 	// |int_T div J_i - M_i int_T r_i| over triangles and species, relative
@@ -22,8 +22,8 @@ type Diagnostics struct {
 	// Production[i] is M_i int r_i dx, the mass produced inside.
 	Production []float64
 	// Balance is the largest |sum_tags BoundaryFlux[tag][i] - Production[i]|
-	// relative to the largest boundary flux of that species (absolute
-	// when every flux is zero).
+	// relative to the largest boundary flux of any species (absolute when
+	// every flux is zero).
 	Balance float64
 }
 
@@ -96,11 +96,18 @@ func (d *Discretisation) Diagnose(sol *Solution) Diagnostics {
 			dg.BoundaryFlux[be.tag][i] += sgn * v
 		}
 	}
+	// The balance is relative to the largest boundary flux of any species,
+	// so that a species with (nearly) no flux does not divide by rounding.
+	var big float64
+	for _, f := range dg.BoundaryFlux {
+		for _, v := range f {
+			big = math.Max(big, math.Abs(v))
+		}
+	}
 	for i := 0; i < n; i++ {
-		var total, big float64
+		var total float64
 		for _, f := range dg.BoundaryFlux {
 			total += f[i]
-			big = math.Max(big, math.Abs(f[i]))
 		}
 		def := math.Abs(total - dg.Production[i])
 		if big > 0 {
@@ -111,8 +118,11 @@ func (d *Discretisation) Diagnose(sol *Solution) Diagnostics {
 	return dg
 }
 
-// MassAverageResidual returns ||v - sum_i J_i/rho||_L2 / ||v||_L2 (absolute
-// when v = 0) of sol, with rho from its frozen concentrations.
+// MassAverageResidual returns ||v - sum_i J_i/rho||_L2 relative to the
+// largest of ||v||_L2 and ||J_i/rho||_L2 over the species (absolute when all
+// vanish), with rho from the frozen concentrations of sol. The species
+// terms keep the measure meaningful where the mixture barely moves while
+// its species diffuse.
 func (d *Discretisation) MassAverageResidual(sol *Solution) float64 {
 	if sol.frozen == nil {
 		return math.NaN()
@@ -122,6 +132,7 @@ func (d *Discretisation) MassAverageResidual(sol *Solution) float64 {
 	nv, nf := w.nv, w.nf
 	vx, vy := sol.Velocity(0), sol.Velocity(1)
 	var num, den float64
+	spec := make([]float64, n) // ||J_i/rho||^2
 	for t := 0; t < m.NumTriangles(); t++ {
 		af := fem.ElementMap(m, t)
 		d.vq.Reinit(&af)
@@ -144,18 +155,25 @@ func (d *Discretisation) MassAverageResidual(sol *Solution) float64 {
 			}
 			e := v
 			fv := d.fq.Val[q*nf : (q+1)*nf]
+			W := d.vq.W[q]
 			for i := 0; i < n; i++ {
 				jc := sol.Flux(i)
+				var ji [2]float64
 				for b := 0; b < nf; b++ {
 					co := fs[b] * jc[fd[b]] / rho
-					e[0] -= co * fv[b][0]
-					e[1] -= co * fv[b][1]
+					ji[0] += co * fv[b][0]
+					ji[1] += co * fv[b][1]
 				}
+				e[0] -= ji[0]
+				e[1] -= ji[1]
+				spec[i] += W * (ji[0]*ji[0] + ji[1]*ji[1])
 			}
-			W := d.vq.W[q]
 			num += W * (e[0]*e[0] + e[1]*e[1])
 			den += W * (v[0]*v[0] + v[1]*v[1])
 		}
+	}
+	for _, v := range spec {
+		den = math.Max(den, v)
 	}
 	if den == 0 {
 		return math.Sqrt(num)

@@ -13,7 +13,7 @@ import (
 func init() {
 	register(&problem{
 		name:     "sosm",
-		variants: []string{"bdm", "rt"},
+		variants: []string{"bdm", "rt", "scott-vogelius"},
 		degrees:  func(string) []int { return []int{1, 2, 3, 4} },
 		run:      runSOSM,
 	})
@@ -105,7 +105,14 @@ func runSOSM(cfg Config, progress func(int)) (*Study, error) {
 	if err != nil {
 		return nil, err
 	}
-	meshes, kind, err := meshLevels(cfg, 2, mesh.AlternatingDiagonal)
+	pattern := mesh.AlternatingDiagonal
+	pair := physics.TaylorHood
+	if cfg.Variant == "scott-vogelius" {
+		// Scott–Vogelius P_{k+1}/DG_k with BDM fluxes on barycentric
+		// splits of "/" meshes (see runStokes for the pattern).
+		pattern, pair = mesh.RightDiagonal, physics.ScottVogelius
+	}
+	meshes, kind, err := meshLevels(cfg, 2, pattern)
 	if err != nil {
 		return nil, err
 	}
@@ -149,8 +156,13 @@ func runSOSM(cfg Config, progress func(int)) (*Study, error) {
 	}
 	pt := ex.newPoint()
 	at := func(x [2]float64) *sosmPoint { ex.at(pt, x); return pt }
-	for l, m := range meshes {
+	for l, macro := range meshes {
+		m := macro
+		if pair == physics.ScottVogelius {
+			m = mesh.BarycentricSplit(macro)
+		}
 		prob := sosmProblem(m, mix, ex, k, family, S)
+		prob.Pressure = pair
 		prob.SpeciesAugmentation = beta
 		d, err := physics.NewDiscretisation(prob)
 		if err != nil {
@@ -223,7 +235,7 @@ func runSOSM(cfg Config, progress func(int)) (*Study, error) {
 		dg := d.Diagnose(sol)
 		st.Conservation = append(st.Conservation, dg.Conservation)
 		st.MassAverage = append(st.MassAverage, dg.MassAverage)
-		st.H = append(st.H, m.MaxEdgeLength())
+		st.H = append(st.H, macro.MaxEdgeLength())
 		st.Unknowns = append(st.Unknowns, d.Len())
 		st.Residuals = append(st.Residuals, sol.LinearResidual)
 		if progress != nil {

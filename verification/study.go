@@ -84,7 +84,7 @@ type Study struct {
 	// Conservation holds per level the largest element-wise species
 	// conservation defect, relative.
 	Conservation []float64 `json:"conservation,omitempty"`
-	// MassAverage holds per level ||v - sum J/rho|| / ||v||.
+	// MassAverage holds per level ||v - sum J/rho|| relative to the largest of ||v|| and ||J_i/rho||.
 	MassAverage []float64 `json:"mass_average,omitempty"`
 }
 

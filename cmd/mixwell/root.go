@@ -58,9 +58,16 @@ func newRootCmd(d deps) *cobra.Command {
 multicomponent mixtures: Stokes flow coupled to Onsager–Stefan–Maxwell
 cross-diffusion, discretised with high-order mixed finite elements.
 
-This build contains the finite-element core and its convergence studies
-("mixwell verify"). The coupled mixture solver is not built yet.`,
-		Example: `  # Check Taylor–Hood Stokes elements of pressure degree 2 on four meshes
+Describe a case in a YAML file (docs/case-format.md), check it with
+"mixwell check", solve it with "mixwell run"; "mixwell demo" runs an
+embedded case, and "mixwell verify" runs manufactured-solution convergence
+studies. Results are model predictions: they need validation and review
+under the applicable codes and licensed practice before they inform a
+design.`,
+		Example: `  # Run the embedded demonstration case into ./mixwell-demo
+  mixwell demo
+
+  # Check Taylor–Hood Stokes elements of pressure degree 2 on four meshes
   mixwell verify --problem stokes --pair taylor-hood --degree 2 --levels 4
 
   # Set up shell completion (bash; see "mixwell completion --help")
@@ -70,6 +77,9 @@ This build contains the finite-element core and its convergence studies
 	}
 	root.SetVersionTemplate("mixwell {{.Version}}\n")
 	root.AddCommand(newVerifyCmd(d))
+	root.AddCommand(newCheckCmd(d))
+	root.AddCommand(newRunCmd(d))
+	root.AddCommand(newDemoCmd(d))
 	return root
 }
 

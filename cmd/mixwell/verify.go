@@ -88,7 +88,7 @@ residuals (relative residual of the linear solve per level). The coupled
 Stokes–Onsager–Stefan–Maxwell problem (sosm) adds flavour, species, S, beta,
 method, iterations (nonlinear iterations per level, 1 for the frozen
 layer), conservation (largest element-wise species conservation defect per
-level) and mass_average (||v - sum J/rho|| / ||v|| per level). When stderr
+level) and mass_average (||v - sum J/rho|| relative to the largest of ||v|| and ||J_i/rho||, per level). When stderr
 is a terminal, a line per solved level is printed there unless --quiet.`,
 		Example: `  # Lagrange elements of degree 3, table on stdout
   mixwell verify --problem poisson --degree 3 --levels 4

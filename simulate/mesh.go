@@ -1,0 +1,137 @@
+package simulate
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"mixwell/casefile"
+	"mixwell/mesh"
+)
+
+// buildMesh returns the case's triangulation in metres with one boundary
+// tag per boundary name (tags numbered from 1 in sorted name order).
+func buildMesh(c *casefile.Case) (*mesh.Mesh, error) {
+	g := c.Geometry
+	var m *mesh.Mesh
+	var err error
+	switch g.Kind {
+	case casefile.RectangleGeometry:
+		m, err = rectangleMesh(g.Rectangle, g.Meshing)
+	case casefile.PolygonGeometry:
+		m, err = polygonMesh(g.Polygon, g.Meshing)
+	case casefile.MeshFileGeometry:
+		m = g.MeshFile.Mesh.Clone()
+	default:
+		err = fmt.Errorf("unknown geometry kind %q", g.Kind)
+	}
+	if err != nil {
+		return nil, err
+	}
+	if g.Meshing.Refinements > 0 {
+		m = mesh.RefineTimes(m, g.Meshing.Refinements)
+	}
+	return m, nil
+}
+
+// nameTags numbers the distinct names from 1 in sorted order.
+func nameTags(names []string) map[string]int {
+	uniq := append([]string(nil), names...)
+	sort.Strings(uniq)
+	tags := map[string]int{}
+	for _, n := range uniq {
+		if _, ok := tags[n]; !ok {
+			tags[n] = len(tags) + 1
+		}
+	}
+	return tags
+}
+
+// rectangleMesh meshes a rectangle: structured with alternating diagonals,
+// or, when boundary layers are asked for, as a polygon by the quality
+// mesher with the same cell size.
+func rectangleMesh(r *casefile.Rectangle, opt casefile.Meshing) (*mesh.Mesh, error) {
+	if len(opt.Layers) > 0 {
+		p := &casefile.Polygon{Outline: casefile.Loop{
+			Points: [][2]float64{{r.X0, r.Y0}, {r.X1, r.Y0}, {r.X1, r.Y1}, {r.X0, r.Y1}},
+			Names:  []string{r.Names[casefile.Bottom], r.Names[casefile.Right], r.Names[casefile.Top], r.Names[casefile.Left]},
+		}}
+		if opt.MaxArea == 0 && opt.CellSize == 0 {
+			h := math.Min((r.X1-r.X0)/float64(r.NX), (r.Y1-r.Y0)/float64(r.NY))
+			opt.CellSize = h
+		}
+		return polygonMesh(p, opt)
+	}
+	m, err := mesh.Rectangle(r.X0, r.Y0, r.X1, r.Y1, r.NX, r.NY, mesh.AlternatingDiagonal)
+	if err != nil {
+		return nil, err
+	}
+	tags := nameTags(r.Names[:])
+	out := m.Clone()
+	for e := range out.EdgeTags {
+		if out.EdgeTags[e] != 0 {
+			out.EdgeTags[e] = 0
+		}
+	}
+	out.TagNames = map[int]string{}
+	sides := [4]func(a, b [2]float64) bool{
+		func(a, b [2]float64) bool { return a[1] == r.Y0 && b[1] == r.Y0 },
+		func(a, b [2]float64) bool { return a[0] == r.X1 && b[0] == r.X1 },
+		func(a, b [2]float64) bool { return a[1] == r.Y1 && b[1] == r.Y1 },
+		func(a, b [2]float64) bool { return a[0] == r.X0 && b[0] == r.X0 },
+	}
+	for side, on := range sides {
+		name := r.Names[side]
+		for e, et := range out.EdgeTriangles {
+			if et[1] >= 0 {
+				continue
+			}
+			a, b := out.Points[out.Edges[e][0]], out.Points[out.Edges[e][1]]
+			if on(a, b) {
+				out.EdgeTags[e] = tags[name]
+			}
+		}
+		out.TagNames[tags[name]] = name
+	}
+	if err := out.Validate(); err != nil {
+		return nil, err
+	}
+	return out, nil
+}
+
+// polygonMesh meshes a polygon with holes by constrained Delaunay
+// triangulation and quality refinement.
+func polygonMesh(p *casefile.Polygon, opt casefile.Meshing) (*mesh.Mesh, error) {
+	all := append([]string(nil), p.Outline.Names...)
+	for _, h := range p.Holes {
+		all = append(all, h.Names...)
+	}
+	tags := nameTags(all)
+	d := &mesh.Domain{Outer: p.Outline.Points, TagNames: map[int]string{}}
+	for _, n := range p.Outline.Names {
+		d.OuterTags = append(d.OuterTags, tags[n])
+	}
+	for _, h := range p.Holes {
+		d.Holes = append(d.Holes, h.Points)
+		var ht []int
+		for _, n := range h.Names {
+			ht = append(ht, tags[n])
+		}
+		d.HoleTags = append(d.HoleTags, ht)
+	}
+	for n, t := range tags {
+		d.TagNames[t] = n
+	}
+	q := &mesh.QualityOptions{MinAngle: opt.MinAngle, MaxArea: opt.MaxArea}
+	if q.MaxArea == 0 && opt.CellSize > 0 {
+		q.MaxArea = math.Sqrt(3) / 4 * opt.CellSize * opt.CellSize
+	}
+	for _, l := range opt.Layers {
+		t, ok := tags[l.Boundary]
+		if !ok {
+			return nil, fmt.Errorf("boundary layer on %q: no such boundary", l.Boundary)
+		}
+		q.Layers = append(q.Layers, mesh.BoundaryLayer{Tag: t, First: l.First, Growth: l.Ratio, Layers: l.Count})
+	}
+	return mesh.Triangulate(d, q)
+}

@@ -1,0 +1,443 @@
+package simulate
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"mixwell/casefile"
+	"mixwell/fem"
+	"mixwell/mesh"
+	"mixwell/physics"
+	"mixwell/solver"
+)
+
+// Prepare builds the mesh, chooses the scales and poses the scaled problem
+// of case c. Errors name the case file position and the boundary or field at
+// fault where there is one.
+func Prepare(c *casefile.Case) (*Setup, error) {
+	n := len(c.Species)
+	sp := make([]physics.Species, n)
+	for i, s := range c.Species {
+		sp[i] = physics.Species{Name: s.Name, MolarMass: s.MolarMass}
+	}
+	pairs := make([]physics.Pair, len(c.Diffusivities))
+	for i, p := range c.Diffusivities {
+		pairs[i] = physics.Pair{A: p.A, B: p.B, Value: p.Value}
+	}
+	mix, err := physics.NewMixture(sp, pairs)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", c.Source, err)
+	}
+	m, err := buildMesh(c)
+	if err != nil {
+		return nil, fmt.Errorf("%s: geometry: %w", c.Source, err)
+	}
+	s := &Setup{Case: c, Mesh: m, mix: mix, tagOf: map[string]int{}}
+	for tag, name := range m.TagNames {
+		s.tagOf[name] = tag
+	}
+	if err := s.chooseScales(); err != nil {
+		return nil, err
+	}
+	if err := s.pose(); err != nil {
+		return nil, err
+	}
+	return s, nil
+}
+
+// RT returns the gas constant times the case temperature (J/mol).
+func (s *Setup) RT() float64 { return physics.GasConstant * s.Case.Temperature }
+
+// floorComposition raises zero mole fractions to the case's floor and
+// renormalises.
+func (s *Setup) floorComposition(x []float64) ([]float64, error) {
+	xmin := s.Case.Solver.MoleFractionFloor
+	if xmin == 0 {
+		xmin = 1e-6
+	}
+	out := make([]float64, len(x))
+	_, err := s.mix.FloorMoleFractionsTo(out, x, xmin)
+	return out, err
+}
+
+// referenceComposition is the initial composition when given, else the mean
+// of the boundary compositions, else equal parts.
+func (s *Setup) referenceComposition() ([]float64, error) {
+	c := s.Case
+	n := len(c.Species)
+	if c.Initial.MoleFractions != nil {
+		return s.floorComposition(c.Initial.MoleFractions)
+	}
+	mean := make([]float64, n)
+	count := 0
+	for _, b := range c.Boundaries {
+		if b.Species.MoleFractions != nil {
+			for i, x := range b.Species.MoleFractions {
+				mean[i] += x
+			}
+			count++
+		}
+	}
+	if count == 0 {
+		for i := range mean {
+			mean[i] = 1 / float64(n)
+		}
+		return mean, nil
+	}
+	for i := range mean {
+		mean[i] /= float64(count)
+	}
+	return s.floorComposition(mean)
+}
+
+// siViscosity returns the SI viscosity model of the case.
+func (s *Setup) siViscosity() (physics.ViscosityModel, error) {
+	v := s.Case.Viscosity
+	if v.Model == casefile.Wilke {
+		w, err := physics.NewWilkeViscosity(s.mix, v.Pure)
+		if err != nil {
+			return nil, fmt.Errorf("%s: viscosity: %w", s.Case.Source, err)
+		}
+		return w, nil
+	}
+	return physics.ConstantViscosity(v.Value), nil
+}
+
+// chooseScales picks the scales from the reference state.
+func (s *Setup) chooseScales() error {
+	c := s.Case
+	x, err := s.referenceComposition()
+	if err != nil {
+		return fmt.Errorf("%s: reference composition: %w", c.Source, err)
+	}
+	RT := s.RT()
+	cT := c.Pressure / RT
+	if v := c.Thermodynamics.MolarVolumes; v != nil {
+		var vm float64
+		for i, xi := range x {
+			vm += xi * v[i]
+		}
+		cT = 1 / vm
+	}
+	visc, err := s.siViscosity()
+	if err != nil {
+		return err
+	}
+	lo, hi := s.Mesh.Points[0], s.Mesh.Points[0]
+	for _, p := range s.Mesh.Points {
+		lo = [2]float64{math.Min(lo[0], p[0]), math.Min(lo[1], p[1])}
+		hi = [2]float64{math.Max(hi[0], p[0]), math.Max(hi[1], p[1])}
+	}
+	var speed float64
+	for _, b := range c.Boundaries {
+		speed = math.Max(speed, math.Abs(b.Velocity.MeanSpeed))
+		speed = math.Max(speed, math.Abs(b.Velocity.Speed))
+		speed = math.Max(speed, math.Hypot(b.Velocity.Vector[0], b.Velocity.Vector[1]))
+	}
+	sc, err := physics.ChooseScales(s.mix, physics.ReferenceState{
+		Length: math.Max(hi[0]-lo[0], hi[1]-lo[1]), MoleFractions: x,
+		TotalConcentration: cT, RT: RT, Viscosity: visc, Speed: speed,
+	})
+	if err != nil {
+		return fmt.Errorf("%s: scales: %w", c.Source, err)
+	}
+	s.Scales = sc
+	return nil
+}
+
+// scaledViscosity divides an SI viscosity model by the reference value.
+type scaledViscosity struct {
+	m   physics.ViscosityModel
+	ref float64
+}
+
+func (v scaledViscosity) Viscosity(x []float64) float64 { return v.m.Viscosity(x) / v.ref }
+
+// pose builds the scaled problem and its discretisation.
+func (s *Setup) pose() error {
+	c, sc := s.Case, s.Scales
+	n := len(c.Species)
+	smix := s.mix.Scaled(sc)
+	s.pressure = c.Pressure / sc.ThermodynamicPressure()
+	var err error
+	vols := make([]float64, n)
+	for i := range vols {
+		if c.Thermodynamics.MolarVolumes != nil {
+			vols[i] = c.Thermodynamics.MolarVolumes[i] * sc.Concentration
+		}
+	}
+	switch c.Thermodynamics.Model {
+	case casefile.IdealGas:
+		s.Closure, err = physics.NewIdealGas(smix, 1, s.pressure)
+	case casefile.IdealGasAtPressure:
+		s.Closure, err = physics.NewIdealGasAtPressure(smix, 1, s.pressure)
+	case casefile.IdealSolution:
+		s.Closure, err = physics.NewIdealSolution(smix, vols, 1, s.pressure)
+	case casefile.Margules:
+		inter := make([]physics.Pair, len(c.Thermodynamics.Interactions))
+		for i, p := range c.Thermodynamics.Interactions {
+			inter[i] = physics.Pair{A: p.A, B: p.B, Value: p.Value}
+		}
+		s.Closure, err = physics.NewMargulesSolution(smix, vols, inter, 1, s.pressure)
+	default:
+		err = fmt.Errorf("unknown thermodynamic model %q", c.Thermodynamics.Model)
+	}
+	if err != nil {
+		return fmt.Errorf("%s: thermodynamics: %w", c.Source, err)
+	}
+	visc, err := s.siViscosity()
+	if err != nil {
+		return err
+	}
+	// The scaled mesh.
+	sm := s.Mesh.Clone()
+	for i := range sm.Points {
+		sm.Points[i][0] /= sc.Length
+		sm.Points[i][1] /= sc.Length
+	}
+	if c.Discretisation.Pair == casefile.ScottVogelius {
+		sm = mesh.BarycentricSplit(sm)
+		s.Mesh = mesh.BarycentricSplit(s.Mesh)
+	}
+	ref, err := s.referenceComposition()
+	if err != nil {
+		return err
+	}
+	s.initial = make([]float64, n)
+	if err := s.Closure.PotentialsTo(s.initial, ref, s.pressure); err != nil {
+		return fmt.Errorf("%s: initial composition: %w", c.Source, err)
+	}
+	fg := sc.Density * sc.Length * sc.Length / (sc.Viscosity * sc.Velocity())
+	p := &physics.Problem{
+		Mesh: sm, Mixture: smix, Degree: c.Discretisation.Degree, S: sc.S(),
+		Viscosity:           scaledViscosity{visc, sc.Viscosity},
+		BulkViscosity:       c.Viscosity.Bulk / sc.Viscosity,
+		Augmentation:        c.Solver.Augmentation,
+		SpeciesAugmentation: c.Solver.SpeciesAugmentation,
+		Gravity:             [2]float64{c.Gravity[0] * fg, c.Gravity[1] * fg},
+		Boundary:            map[int]physics.BoundaryCondition{},
+		QuadratureDegree:    c.Discretisation.Quadrature,
+	}
+	if c.Discretisation.Flux == casefile.RT {
+		p.Flux = physics.RTFlux
+	}
+	if c.Discretisation.Pair == casefile.ScottVogelius {
+		p.Pressure = physics.ScottVogelius
+	}
+	for _, b := range c.Boundaries {
+		tag, ok := s.tagOf[b.Name]
+		if !ok {
+			return fmt.Errorf("%s:%d: boundaries.%s: no boundary of the mesh has this name", c.Source, b.Pos.Line, b.Name)
+		}
+		bc, err := s.boundary(sm, tag, b)
+		if err != nil {
+			return fmt.Errorf("%s:%d: boundaries.%s: %w", c.Source, b.Pos.Line, b.Name, err)
+		}
+		p.Boundary[tag] = bc
+	}
+	s.Problem = p
+	d, err := physics.NewDiscretisation(p)
+	if err != nil {
+		return fmt.Errorf("%s: %w", c.Source, err)
+	}
+	s.Discretisation = d
+	return nil
+}
+
+// segmentOf returns the end points and outward normal of the straight
+// boundary with the given tag in the scaled mesh, or an error when its
+// edges are not on one straight line.
+func segmentOf(m *mesh.Mesh, tag int) (a, b, nrm [2]float64, err error) {
+	edges := m.BoundaryEdges(tag)
+	if len(edges) == 0 {
+		return a, b, nrm, fmt.Errorf("no edges")
+	}
+	first := true
+	for _, e := range edges {
+		en, _ := fem.OutwardNormal(m, e)
+		if first {
+			nrm, first = en, false
+			a, b = m.Points[m.Edges[e][0]], m.Points[m.Edges[e][1]]
+		}
+		if math.Abs(en[0]*nrm[1]-en[1]*nrm[0]) > 1e-9 || en[0]*nrm[0]+en[1]*nrm[1] < 0 {
+			return a, b, nrm, fmt.Errorf("the boundary is not straight")
+		}
+		for _, v := range m.Edges[e] {
+			p := m.Points[v]
+			// Keep a and b the extreme points along the tangent t.
+			t := [2]float64{-nrm[1], nrm[0]}
+			sa := (p[0]-a[0])*t[0] + (p[1]-a[1])*t[1]
+			if sa < 0 {
+				a = p
+			}
+			sb := (p[0]-b[0])*t[0] + (p[1]-b[1])*t[1]
+			if sb > 0 {
+				b = p
+			}
+		}
+	}
+	return a, b, nrm, nil
+}
+
+// boundary translates the conditions of one named boundary into the scaled
+// problem's conditions.
+func (s *Setup) boundary(sm *mesh.Mesh, tag int, b casefile.Boundary) (physics.BoundaryCondition, error) {
+	c, sc := s.Case, s.Scales
+	n := len(c.Species)
+	var bc physics.BoundaryCondition
+	vel := b.Velocity
+	var inflowNormal func(x [2]float64) float64 // scaled v.n of an inflow
+	switch vel.Kind {
+	case casefile.Wall:
+		bc.Velocity.Kind = physics.VelocityGiven
+		if vel.Speed != 0 {
+			_, _, nrm, err := segmentOf(sm, tag)
+			if err != nil {
+				return bc, fmt.Errorf("a moving wall must be straight: %v", err)
+			}
+			u := vel.Speed / sc.Velocity()
+			v := [2]float64{-nrm[1] * u, nrm[0] * u}
+			bc.Velocity.Velocity = func([2]float64) [2]float64 { return v }
+		}
+	case casefile.Inflow:
+		bc.Velocity.Kind = physics.VelocityGiven
+		if vel.HasVector {
+			v := [2]float64{vel.Vector[0] / sc.Velocity(), vel.Vector[1] / sc.Velocity()}
+			bc.Velocity.Velocity = func([2]float64) [2]float64 { return v }
+			_, _, nrm, err := segmentOf(sm, tag)
+			if err != nil {
+				return bc, fmt.Errorf("an inflow must be straight: %v", err)
+			}
+			vn := v[0]*nrm[0] + v[1]*nrm[1]
+			inflowNormal = func([2]float64) float64 { return vn }
+			break
+		}
+		a, bb, nrm, err := segmentOf(sm, tag)
+		if err != nil {
+			return bc, fmt.Errorf("an inflow must be straight: %v", err)
+		}
+		u := vel.MeanSpeed / sc.Velocity()
+		length := math.Hypot(bb[0]-a[0], bb[1]-a[1])
+		parabolic := vel.Profile == casefile.Parabolic
+		speed := func(x [2]float64) float64 {
+			if !parabolic {
+				return u
+			}
+			t := ((x[0]-a[0])*(bb[0]-a[0]) + (x[1]-a[1])*(bb[1]-a[1])) / (length * length)
+			return 6 * u * t * (1 - t)
+		}
+		bc.Velocity.Velocity = func(x [2]float64) [2]float64 {
+			w := speed(x)
+			return [2]float64{-w * nrm[0], -w * nrm[1]}
+		}
+		inflowNormal = func(x [2]float64) float64 { return -speed(x) }
+	case casefile.Slip:
+		bc.Velocity.Kind = physics.VelocitySlip
+	case casefile.Open:
+		bc.Velocity.Kind = physics.VelocityTraction
+		pb := vel.Pressure / sc.Pressure()
+		bc.Velocity.Traction = func(_, nrm [2]float64) [2]float64 { return [2]float64{-pb * nrm[0], -pb * nrm[1]} }
+		bc.Pressure = func([2]float64) float64 { return pb }
+	case casefile.StefanWall:
+		return bc, errors.New("stefan-wall velocity conditions are not implemented yet (use open or wall)")
+	default:
+		return bc, fmt.Errorf("unknown velocity condition %q", vel.Kind)
+	}
+	bc.Species = make([]physics.SpeciesCondition, n)
+	spc := b.Species
+	switch spc.Kind {
+	case casefile.Impermeable, "":
+		for i := range bc.Species {
+			bc.Species[i] = physics.SpeciesCondition{Kind: physics.SpeciesFlux}
+		}
+	case casefile.Flux:
+		for i := range bc.Species {
+			f := spc.Fluxes[i]
+			if spc.Basis == casefile.MolarBasis {
+				f *= c.Species[i].MolarMass
+			}
+			f /= sc.MassFlux()
+			bc.Species[i] = physics.SpeciesCondition{Kind: physics.SpeciesFlux, Flux: func(_, _ [2]float64) float64 { return f }}
+		}
+	case casefile.ConvectiveInflow:
+		if inflowNormal == nil {
+			return bc, errors.New("convective-inflow needs an inflow velocity condition on the same boundary")
+		}
+		x, err := s.floorComposition(spc.MoleFractions)
+		if err != nil {
+			return bc, err
+		}
+		mu := make([]float64, n)
+		conc := make([]float64, n)
+		if err := s.Closure.PotentialsTo(mu, x, s.pressure); err != nil {
+			return bc, err
+		}
+		if err := s.Closure.ConcentrationsTo(conc, nil, nil, mu, s.pressure); err != nil {
+			return bc, err
+		}
+		for i := range bc.Species {
+			rhoI := s.scaledMass(i) * conc[i]
+			bc.Species[i] = physics.SpeciesCondition{Kind: physics.SpeciesFlux, Flux: func(x, _ [2]float64) float64 { return rhoI * inflowNormal(x) }}
+		}
+	case casefile.Composition:
+		x, err := s.floorComposition(spc.MoleFractions)
+		if err != nil {
+			return bc, err
+		}
+		mu := make([]float64, n)
+		if err := s.Closure.PotentialsTo(mu, x, s.pressure); err != nil {
+			return bc, err
+		}
+		for i := range bc.Species {
+			if spc.Impermeable != nil && spc.Impermeable[i] {
+				bc.Species[i] = physics.SpeciesCondition{Kind: physics.SpeciesFlux}
+				continue
+			}
+			v := mu[i]
+			bc.Species[i] = physics.SpeciesCondition{Kind: physics.SpeciesPotential, Potential: func([2]float64) float64 { return v }}
+		}
+	case casefile.Outflow:
+		return bc, errors.New("outflow species conditions are not implemented yet (give a composition)")
+	default:
+		return bc, fmt.Errorf("unknown species condition %q", spc.Kind)
+	}
+	return bc, nil
+}
+
+// scaledMass returns the scaled molar mass of species i.
+func (s *Setup) scaledMass(i int) float64 { return s.mix.MolarMass(i) / s.Scales.MolarMass() }
+
+// Unknowns returns the number of unknowns of the discrete system.
+func (s *Setup) Unknowns() int { return s.Discretisation.Len() }
+
+// Describe summarises the mesh, the unknowns and the scales.
+func (s *Setup) Describe() string {
+	var b strings.Builder
+	m := s.Mesh
+	fmt.Fprintf(&b, "mesh: %d vertices, %d triangles, largest edge %.4g m\n", m.NumPoints(), m.NumTriangles(), m.MaxEdgeLength())
+	names := make([]string, 0, len(s.tagOf))
+	for name := range s.tagOf {
+		names = append(names, name)
+	}
+	sort.Strings(names)
+	for _, name := range names {
+		fmt.Fprintf(&b, "  boundary %-16s %d edges\n", name, len(m.BoundaryEdges(s.tagOf[name])))
+	}
+	k := s.Case.Discretisation.Degree
+	fmt.Fprintf(&b, "discretisation: degree %d (velocity P%d, pressure P%d, fluxes %s, potentials DG%d), %d unknowns\n",
+		k, k+1, k, s.Problem.Flux, k, s.Unknowns())
+	b.WriteString(s.Scales.String())
+	fmt.Fprintf(&b, "\n  %-24s %-8s = %.6e\n", "pressure scales ratio", "p/cRT", s.Scales.Pressure()/s.Scales.ThermodynamicPressure())
+	return b.String()
+}
+
+// method converts the case's method name.
+func method(m casefile.Method) (solver.FixedPointMethod, error) {
+	if m == "" {
+		return solver.Anderson, nil
+	}
+	return solver.ParseFixedPointMethod(string(m))
+}

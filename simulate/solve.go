@@ -1,0 +1,163 @@
+package simulate
+
+import (
+	"fmt"
+	"math"
+	"time"
+
+	"mixwell/fem"
+	"mixwell/physics"
+)
+
+// Solve runs the nonlinear iteration of the case's solver settings. record,
+// when not nil, receives every iteration. When the iteration does not
+// converge, Solve returns the outcome of the last iterate together with the
+// error.
+func (s *Setup) Solve(record func(physics.IterationRecord)) (*Outcome, error) {
+	c := s.Case
+	meth, err := method(c.Solver.Method)
+	if err != nil {
+		return nil, fmt.Errorf("%s: solver: %w", c.Source, err)
+	}
+	update := physics.PotentialProjection
+	if c.Solver.Update == "concentration" {
+		update = physics.ConcentrationProjection
+	}
+	start := time.Now()
+	init := append([]float64(nil), s.initial...)
+	sol, rep, serr := s.Discretisation.SolveNonlinear(&physics.NonlinearSettings{
+		Closure:       s.Closure,
+		Pressure0:     s.pressure,
+		Initial:       func(_ [2]float64, mu []float64) { copy(mu, init) },
+		Method:        meth,
+		Update:        update,
+		Tolerance:     c.Solver.Tolerance,
+		MaxIterations: c.Solver.MaxIterations,
+		Depth:         c.Solver.AndersonDepth,
+		Record:        record,
+	})
+	if sol == nil {
+		if serr == nil {
+			serr = fmt.Errorf("no solution")
+		}
+		return nil, serr
+	}
+	o := &Outcome{Setup: s, Solution: sol, Report: rep, Elapsed: time.Since(start)}
+	if rep != nil {
+		o.Converged, o.Iterations, o.Residual = rep.Converged, rep.Iterations, rep.Residual
+	}
+	o.summarise()
+	return o, serr
+}
+
+// summarise fills the diagnostics in SI units.
+func (o *Outcome) summarise() {
+	s := o.Setup
+	sc := s.Scales
+	d := s.Discretisation
+	dg := d.Diagnose(o.Solution)
+	o.Diagnostics = dg
+	o.SpeciesBalance = dg.Balance
+	o.MassAverage = dg.MassAverage
+	perDepth := sc.MassFlux() * sc.Length // scaled flux per scaled depth -> kg/(s m)
+	o.BoundaryFlux = map[string][]Flux{}
+	for tag, f := range dg.BoundaryFlux {
+		name := s.Mesh.TagNames[tag]
+		out := make([]Flux, len(f))
+		for i, v := range f {
+			mass := v * perDepth
+			out[i] = Flux{Mass: mass, Molar: mass / s.mix.MolarMass(i)}
+		}
+		o.BoundaryFlux[name] = out
+	}
+	o.Production = make([]float64, len(dg.Production))
+	for i, v := range dg.Production {
+		o.Production[i] = v * perDepth
+	}
+	// Size of the wall-pressure approximation on composition boundaries.
+	var pmax float64
+	pc := o.Solution.Pressure()
+	for tag, bc := range s.Problem.Boundary {
+		if len(bc.Species) == 0 || bc.Species[0].Kind != physics.SpeciesPotential || bc.Velocity.Kind == physics.VelocityTraction {
+			continue
+		}
+		dofs, err := d.P.BoundaryDofs(tag)
+		if err != nil {
+			continue
+		}
+		for _, g := range dofs {
+			pmax = math.Max(pmax, math.Abs(pc[g]))
+		}
+	}
+	var mmax float64
+	for i := 0; i < s.mix.Len(); i++ {
+		mmax = math.Max(mmax, s.mix.MolarMass(i))
+	}
+	o.WallPressure = pmax * sc.Pressure() * mmax / (sc.Density * s.RT())
+}
+
+// NewPoint returns a Point sized for the case's species.
+func (o *Outcome) NewPoint() *Point {
+	n := o.Setup.mix.Len()
+	return &Point{
+		C: make([]float64, n), Mu: make([]float64, n),
+		MoleFraction: make([]float64, n), MassFraction: make([]float64, n),
+		J: make([][2]float64, n), N: make([][2]float64, n), Diffusive: make([][2]float64, n),
+	}
+}
+
+// SampleTo writes every field at the reference point xh of triangle t into
+// pt. Concentrations follow from the discrete potentials and pressure by the
+// closure. A state at which the closure fails gives NaN concentrations.
+func (o *Outcome) SampleTo(pt *Point, t int, xh [2]float64) {
+	s := o.Setup
+	d, sc, sol := s.Discretisation, s.Scales, o.Solution
+	n := s.mix.Len()
+	af := fem.ElementMap(s.Mesh, t)
+	x := af.Point(xh)
+	pt.X = x
+	vx, _ := fem.ScalarAt(d.V, sol.Velocity(0), t, xh)
+	vy, _ := fem.ScalarAt(d.V, sol.Velocity(1), t, xh)
+	p, _ := fem.ScalarAt(d.P, sol.Pressure(), t, xh)
+	pt.V = [2]float64{vx * sc.Velocity(), vy * sc.Velocity()}
+	pt.P = p * sc.Pressure()
+	mu := make([]float64, n)
+	for i := 0; i < n; i++ {
+		mu[i], _ = fem.ScalarAt(d.U, sol.Potential(i), t, xh)
+		pt.Mu[i] = mu[i] * s.RT()
+	}
+	c := make([]float64, n)
+	if err := s.Closure.ConcentrationsTo(c, nil, nil, mu, s.pressure+sc.S()*p); err != nil {
+		for i := range c {
+			c[i] = math.NaN()
+		}
+	}
+	var cT, rho float64
+	for i := 0; i < n; i++ {
+		pt.C[i] = c[i] * sc.Concentration
+		cT += pt.C[i]
+		rho += pt.C[i] * s.mix.MolarMass(i)
+	}
+	pt.Rho = rho
+	for i := 0; i < n; i++ {
+		pt.MoleFraction[i] = pt.C[i] / cT
+		pt.MassFraction[i] = pt.C[i] * s.mix.MolarMass(i) / rho
+		j, _ := fem.DivAt(d.F, sol.Flux(i), t, xh)
+		J := [2]float64{j[0] * sc.MassFlux(), j[1] * sc.MassFlux()}
+		pt.J[i] = J
+		M := s.mix.MolarMass(i)
+		pt.N[i] = [2]float64{J[0] / M, J[1] / M}
+		ri := pt.C[i] * M
+		pt.Diffusive[i] = [2]float64{J[0] - ri*pt.V[0], J[1] - ri*pt.V[1]}
+	}
+}
+
+// Locate returns the triangle of the SI mesh that contains x (metres) and
+// the reference coordinates of x in it.
+func (o *Outcome) Locate(x [2]float64) (t int, xh [2]float64, ok bool) {
+	s := o.Setup
+	if s.locator == nil {
+		s.locator = newLocator(s.Mesh)
+	}
+	return s.locator.find(x)
+}
