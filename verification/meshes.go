@@ -33,5 +33,15 @@ func meshLevels(cfg Config, coarse int, pattern mesh.Diagonal) ([]*mesh.Mesh, st
 	for l := 1; l < cfg.Levels; l++ {
 		out[l] = mesh.Refine(out[l-1])
 	}
+	if cfg.Clockwise {
+		// Same meshes, local vertex order permuted at random: about half
+		// the triangles become clockwise (formulation note, section 10
+		// item 1).
+		rng := rand.New(rand.NewPCG(cfg.Seed, 0x636c6f63))
+		for l := range out {
+			out[l] = out[l].PermuteLocalVertices(rng)
+		}
+		kind += "-permuted"
+	}
 	return out, kind, nil
 }

@@ -29,6 +29,9 @@ type Config struct {
 	Perturbed bool
 	// Seed seeds the perturbation.
 	Seed uint64
+	// Clockwise permutes the local vertex order of every triangle at
+	// random (same meshes, about half the triangles clockwise).
+	Clockwise bool
 	// Species is the number of species of the sosm problem (0 means 3).
 	Species int
 	// Flavour is the sosm manufactured-solution layer: "nonlinear" (the

@@ -57,6 +57,7 @@ type verifyOptions struct {
 	method  string
 	maxIter int
 	groupS  float64
+	regime  string
 	beta    float64
 }
 
@@ -134,7 +135,8 @@ is a terminal, a line per solved level is printed there unless --quiet.`,
 	f.StringVar(&o.flavour, "flavour", "nonlinear", "manufactured `LAYER` of --problem sosm: nonlinear, frozen or consistent")
 	f.StringVar(&o.method, "method", "anderson", "nonlinear `METHOD` of --problem sosm: anderson, picard or newton-krylov")
 	f.IntVar(&o.maxIter, "max-iterations", 60, "most nonlinear iterations `M` per level (--problem sosm)")
-	f.Float64Var(&o.groupS, "group-s", 0, "dimensionless group `S` of --problem sosm (0: 1 for frozen, 1e-3 otherwise)")
+	f.Float64Var(&o.groupS, "group-s", 0, "dimensionless group `S` of --problem sosm (0: 1 for frozen, 1e-7 otherwise)")
+	f.StringVar(&o.regime, "regime", "", "`REGIME` of --problem sosm: unit (S = 1) or physical (S = 1e-7); the default depends on --flavour")
 	f.Float64Var(&o.beta, "beta", 0, "one-sided species augmentation `BETA` of --problem sosm (0: the default 1; negative: none)")
 	f.StringVar(&o.format, "format", "table", "output `FORMAT`: table or json")
 	f.StringVar(&o.plot, "plot", "", "also draw error against h on log–log axes into `FILE` (.png or .svg)")
@@ -214,7 +216,7 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 		}
 	}
 
-	for _, name := range []string{"species", "flavour", "method", "max-iterations", "group-s", "beta"} {
+	for _, name := range []string{"species", "flavour", "method", "max-iterations", "group-s", "regime", "beta"} {
 		if flags.Changed(name) && o.problem != "sosm" {
 			return cfg, fmt.Errorf("--%s applies only to --problem sosm, not to %s", name, o.problem)
 		}
@@ -234,6 +236,19 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 		}
 		if o.groupS < 0 || math.IsNaN(o.groupS) || math.IsInf(o.groupS, 0) {
 			return cfg, fmt.Errorf("--group-s must be positive and finite (or 0 for the default), got %g", o.groupS)
+		}
+		switch o.regime {
+		case "":
+		case "unit", "physical":
+			if flags.Changed("group-s") {
+				return cfg, errors.New("give --regime or --group-s, not both")
+			}
+			o.groupS = 1
+			if o.regime == "physical" {
+				o.groupS = 1e-7
+			}
+		default:
+			return cfg, fmt.Errorf("unknown --regime %q (valid: unit, physical)", o.regime)
 		}
 		cfg.Species, cfg.Flavour, cfg.Method = o.species, o.flavour, o.method
 		cfg.MaxIterations, cfg.S, cfg.Beta = o.maxIter, o.groupS, o.beta
