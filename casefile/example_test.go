@@ -59,7 +59,7 @@ func ExampleLoad() {
 	//   geometry: rectangle [0, 0.002] x [0, 0.238] m, 1 x 64 cells, 10 layers at mouth; boundaries mouth, surface, wall
 	//   discretisation: k = 2, taylor-hood, bdm, quadrature default
 	//   mouth: velocity open at p = 0 Pa; species composition (acetone 0, methanol 0, air 1)
-	//   surface: velocity open at p = 0 Pa; species composition (acetone 0.319, methanol 0.528, air 0.153), impermeable to air
+	//   surface: velocity stefan-wall; species composition (acetone 0.319, methanol 0.528, air 0.153), impermeable to air
 	//   wall: velocity slip; species impermeable
 	//   solver: anderson (depth 10), tolerance 1e-10, at most 60 iterations, update potential, floor 1e-06
 	//   output: 10 fields, subdivision 3, 1 probe line

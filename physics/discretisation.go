@@ -59,8 +59,25 @@ type Discretisation struct {
 	// with natural data.
 	bnd []boundaryEdge
 
+	// given marks velocity unknowns with given values while the essential
+	// data are collected.
+	given map[int]bool
+	// stefan lists the velocity unknowns of Stefan walls whose normal
+	// value the nonlinear iteration sets.
+	stefan []stefanDof
+
 	lu *solver.LU
 	w  assemblyWork
+}
+
+// stefanDof is the normal velocity unknown of a Stefan-wall node: the global
+// unknown, the triangle and reference point of its node, and the outward
+// normal (a coordinate direction, sign included).
+type stefanDof struct {
+	global int
+	t      int
+	xh     [2]float64
+	normal [2]float64
 }
 
 // boundaryEdge is a boundary edge seen from its triangle.
@@ -158,12 +175,16 @@ func (d *Discretisation) fixEssential() error {
 	// (formulation note, section 10 item 7).
 	for _, t := range tags {
 		bc := p.Boundary[t]
-		if bc.Velocity.Kind != VelocitySlip {
+		tangential := bc.Velocity.Kind == VelocityTraction && bc.Velocity.NoTangential
+		if bc.Velocity.Kind != VelocitySlip && !tangential {
 			continue
 		}
 		c, err := slipComponent(m, t)
 		if err != nil {
 			return err
+		}
+		if tangential {
+			c = 1 - c // fix the tangential component of an outlet
 		}
 		dofs, err := d.V.BoundaryDofs(t)
 		if err != nil {
@@ -171,6 +192,22 @@ func (d *Discretisation) fixEssential() error {
 		}
 		for _, g := range dofs {
 			d.sys.Fix(d.lay.Offset(blockVX+c)+g, 0)
+		}
+	}
+	// Stefan walls next: tangential component 0, normal component set by
+	// the iteration; a given velocity overrides them at shared corners.
+	stefanAt := map[int]stefanDof{}
+	for _, t := range tags {
+		bc := p.Boundary[t]
+		if bc.Velocity.Kind != VelocityStefan {
+			continue
+		}
+		c, err := slipComponent(m, t)
+		if err != nil {
+			return err
+		}
+		if err := d.collectStefan(t, c, stefanAt); err != nil {
+			return err
 		}
 	}
 	for _, t := range tags {
@@ -193,6 +230,10 @@ func (d *Discretisation) fixEssential() error {
 				}
 				for a, g := range dofs {
 					d.sys.Fix(d.lay.Offset(blockVX+c)+g, vals[a])
+					if d.given == nil {
+						d.given = map[int]bool{}
+					}
+					d.given[d.lay.Offset(blockVX+c)+g] = true
 				}
 			}
 		}
@@ -216,6 +257,13 @@ func (d *Discretisation) fixEssential() error {
 			}
 		}
 	}
+	for g, sd := range stefanAt {
+		if v := d.sys.FixedValue(g); v == 0 && !d.givenAt(g) {
+			d.stefan = append(d.stefan, sd)
+		}
+	}
+	sort.Slice(d.stefan, func(a, b int) bool { return d.stefan[a].global < d.stefan[b].global })
+	d.given = nil
 	if err := d.checkCompatibility(); err != nil {
 		return err
 	}
@@ -252,6 +300,42 @@ func (d *Discretisation) fixEssential() error {
 			}
 			nrm, _ := fem.OutwardNormal(m, e)
 			d.bnd = append(d.bnd, boundaryEdge{t: tri, local: le, edge: e, tag: t, normal: nrm})
+		}
+	}
+	return nil
+}
+
+// givenAt reports whether velocity unknown g has a given value.
+func (d *Discretisation) givenAt(g int) bool { return d.given[g] }
+
+// collectStefan fixes the velocity unknowns on the Stefan wall with tag t,
+// whose normal is coordinate direction c: the tangential component to 0,
+// the normal one to 0 for now, recording the normal ones in at.
+func (d *Discretisation) collectStefan(t, c int, at map[int]stefanDof) error {
+	m := d.m
+	ents := d.velEl.Entities()
+	nodes := d.velEl.Nodes()
+	for _, e := range m.BoundaryEdges(t) {
+		tri := m.EdgeTriangles[e][0]
+		le, err := fem.LocalEdge(m, tri, e)
+		if err != nil {
+			return err
+		}
+		nrm, _ := fem.OutwardNormal(m, e)
+		gd := d.V.Dofs(tri)
+		for a, en := range ents {
+			on := en.Kind == fem.OnEdge && en.Index == le || en.Kind == fem.AtVertex && en.Index != le
+			if !on {
+				continue
+			}
+			d.sys.Fix(d.lay.Offset(blockVX+1-c)+gd[a], 0)
+			g := d.lay.Offset(blockVX+c) + gd[a]
+			d.sys.Fix(g, 0)
+			if _, seen := at[g]; !seen {
+				var n [2]float64
+				n[c] = math.Copysign(1, nrm[c])
+				at[g] = stefanDof{global: g, t: tri, xh: nodes[a], normal: n}
+			}
 		}
 	}
 	return nil

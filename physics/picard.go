@@ -56,7 +56,11 @@ type picard struct {
 }
 
 // stateLen returns the length of the Picard state.
-func (pm *picard) stateLen() int { return pm.d.n*pm.d.V.Len() + pm.d.P.Len() }
+func (pm *picard) stateLen() int { return pm.d.n*pm.d.V.Len() + pm.d.P.Len() + len(pm.d.stefan) }
+
+// stefanOffset is where the Stefan-wall normal velocities start in the
+// state.
+func (pm *picard) stefanOffset() int { return pm.d.n*pm.d.V.Len() + pm.d.P.Len() }
 
 func newPicard(d *Discretisation, closure Closure, p0 float64, update ConcentrationUpdate, floor float64) (*picard, error) {
 	if closure.Len() != d.n {
@@ -190,6 +194,14 @@ func (pm *picard) apply(dst, x []float64) error {
 	// iteration may overwrite.
 	fr := stateField{pm: pm, x: append([]float64(nil), x...)}
 	pm.clipped = 0
+	so := pm.stefanOffset()
+	for k, sd := range d.stefan {
+		c := 0
+		if sd.normal[1] != 0 {
+			c = 1
+		}
+		d.sys.Fix(sd.global, x[so+k]*sd.normal[c])
+	}
 	A, b, err := d.assemble(fr)
 	if err != nil {
 		return err
@@ -210,6 +222,35 @@ func (pm *picard) apply(dst, x []float64) error {
 		pm.projectStar(dst[i*nV:(i+1)*nV], i, sol)
 	}
 	copy(dst[n*nV:], sol.Pressure())
+	if err := pm.stefanVelocities(dst[pm.stefanOffset():], sol, x); err != nil {
+		return err
+	}
+	return nil
+}
+
+// stefanVelocities writes the outward normal velocity sum_i J_i.n / rho of
+// every Stefan-wall node, with J from sol and rho from the state x.
+func (pm *picard) stefanVelocities(dst []float64, sol *Solution, x []float64) error {
+	d := pm.d
+	n, nV := d.n, d.V.Len()
+	mu := make([]float64, n)
+	c := make([]float64, n)
+	for k, sd := range d.stefan {
+		for i := 0; i < n; i++ {
+			mu[i], _ = fem.ScalarAt(d.V, x[i*nV:(i+1)*nV], sd.t, sd.xh)
+		}
+		p, _ := fem.ScalarAt(d.P, x[n*nV:n*nV+d.P.Len()], sd.t, sd.xh)
+		if err := pm.closure.ConcentrationsTo(c, nil, nil, mu, pm.p0+d.prob.S*p); err != nil {
+			return err
+		}
+		var rho, jn float64
+		for i := 0; i < n; i++ {
+			rho += d.prob.Mixture.mass[i] * c[i]
+			j, _ := fem.DivAt(d.F, sol.Flux(i), sd.t, sd.xh)
+			jn += j[0]*sd.normal[0] + j[1]*sd.normal[1]
+		}
+		dst[k] = jn / rho
+	}
 	return nil
 }
 

@@ -66,6 +66,13 @@ const (
 	// VelocityTraction prescribes the traction (tau(v) - p I) n: an open
 	// boundary. Natural.
 	VelocityTraction
+	// VelocityStefan is a wall that exchanges mass (an evaporating,
+	// dissolving or absorbing surface): tangential velocity 0, normal
+	// velocity sum_i J_i.n / rho (formulation note, section 10 item 3).
+	// The normal velocity is part of the nonlinear iteration's state; a
+	// frozen solve keeps it at 0. Supported on segments parallel to a
+	// coordinate axis.
+	VelocityStefan
 )
 
 // String names the kind.
@@ -77,6 +84,8 @@ func (k VelocityKind) String() string {
 		return "slip"
 	case VelocityTraction:
 		return "traction"
+	case VelocityStefan:
+		return "Stefan wall"
 	}
 	return fmt.Sprintf("VelocityKind(%d)", int(k))
 }
@@ -116,6 +125,11 @@ type VelocityCondition struct {
 	// VelocityTraction, given the outward unit normal n; nil means zero.
 	// An open boundary at dynamic pressure p_b has traction -p_b n.
 	Traction func(x, n [2]float64) [2]float64
+	// NoTangential, with VelocityTraction, also fixes the tangential
+	// velocity to zero, so that only the normal traction is natural: the
+	// outlet condition of formulation note section 10 item 4c, under which
+	// developed flow leaves without flaring. Axis-parallel segments only.
+	NoTangential bool
 }
 
 // SpeciesCondition is the condition on one species at one boundary tag.
@@ -232,8 +246,14 @@ func (p *Problem) validate() error {
 			return fmt.Errorf("physics: boundary %s has %d species conditions for %d species", tagLabel(p.Mesh, t), len(bc.Species), n)
 		}
 		switch bc.Velocity.Kind {
-		case VelocityGiven, VelocityTraction:
-		case VelocitySlip:
+		case VelocityGiven:
+		case VelocityTraction:
+			if bc.Velocity.NoTangential {
+				if _, err := slipComponent(p.Mesh, t); err != nil {
+					return err
+				}
+			}
+		case VelocitySlip, VelocityStefan:
 			if _, err := slipComponent(p.Mesh, t); err != nil {
 				return err
 			}
@@ -295,7 +315,7 @@ func slipComponent(m *mesh.Mesh, t int) (int, error) {
 			c = 1
 		}
 		if c < 0 || comp >= 0 && c != comp {
-			return 0, fmt.Errorf("physics: slip boundary %s is not a straight segment parallel to a coordinate axis (slip on sloped or curved boundaries is not supported)", tagLabel(m, t))
+			return 0, fmt.Errorf("physics: slip or Stefan-wall boundary %s is not a straight segment parallel to a coordinate axis (sloped or curved ones are not supported)", tagLabel(m, t))
 		}
 		comp = c
 	}

@@ -238,6 +238,19 @@ func (s *Setup) pose() error {
 		}
 		p.Boundary[tag] = bc
 	}
+	// A species without composition data anywhere has its potential level
+	// fixed only by its inventory (formulation note, section 6), which the
+	// solver does not impose yet: refuse rather than return an arbitrary
+	// composition.
+	for i := 0; i < n; i++ {
+		has := false
+		for _, bc := range p.Boundary {
+			has = has || bc.Species[i].Kind == physics.SpeciesPotential
+		}
+		if !has {
+			return fmt.Errorf("%s: species %q has no composition boundary: its amount would be set by the inventory (initial.inventory), which the solver does not impose yet; give a composition on some boundary", c.Source, c.Species[i].Name)
+		}
+	}
 	s.Problem = p
 	d, err := physics.NewDiscretisation(p)
 	if err != nil {
@@ -338,11 +351,17 @@ func (s *Setup) boundary(sm *mesh.Mesh, tag int, b casefile.Boundary) (physics.B
 		bc.Velocity.Kind = physics.VelocitySlip
 	case casefile.Open:
 		bc.Velocity.Kind = physics.VelocityTraction
+		// Tangential velocity 0 with normal traction -p_b where the
+		// boundary is axis-parallel (formulation note, section 10 item
+		// 4c); the full traction -p_b n elsewhere.
+		if _, _, nrm, err := segmentOf(sm, tag); err == nil && (math.Abs(nrm[0]) < 1e-12 || math.Abs(nrm[1]) < 1e-12) {
+			bc.Velocity.NoTangential = true
+		}
 		pb := vel.Pressure / sc.Pressure()
 		bc.Velocity.Traction = func(_, nrm [2]float64) [2]float64 { return [2]float64{-pb * nrm[0], -pb * nrm[1]} }
 		bc.Pressure = func([2]float64) float64 { return pb }
 	case casefile.StefanWall:
-		return bc, errors.New("stefan-wall velocity conditions are not implemented yet (use open or wall)")
+		bc.Velocity.Kind = physics.VelocityStefan
 	default:
 		return bc, fmt.Errorf("unknown velocity condition %q", vel.Kind)
 	}
