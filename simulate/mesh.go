@@ -47,10 +47,15 @@ func nameTags(names []string) map[string]int {
 	return tags
 }
 
-// rectangleMesh meshes a rectangle: structured with alternating diagonals,
-// or, when boundary layers are asked for, as a polygon by the quality
-// mesher with the same cell size.
+// rectangleMesh meshes a rectangle: structured with alternating diagonals.
+// Boundary layers on one side, or on two opposite sides, become extra rows
+// (or columns) of geometrically growing thickness next to those sides,
+// keeping the mesh structured; other combinations go to the quality mesher
+// as a polygon with the same cell size.
 func rectangleMesh(r *casefile.Rectangle, opt casefile.Meshing) (*mesh.Mesh, error) {
+	if m, ok, err := gradedRectangle(r, opt); ok || err != nil {
+		return m, err
+	}
 	if len(opt.Layers) > 0 {
 		p := &casefile.Polygon{Outline: casefile.Loop{
 			Points: [][2]float64{{r.X0, r.Y0}, {r.X1, r.Y0}, {r.X1, r.Y1}, {r.X0, r.Y1}},
@@ -134,4 +139,103 @@ func polygonMesh(p *casefile.Polygon, opt casefile.Meshing) (*mesh.Mesh, error) 
 		q.Layers = append(q.Layers, mesh.BoundaryLayer{Tag: t, First: l.First, Growth: l.Ratio, Layers: l.Count})
 	}
 	return mesh.Triangulate(d, q)
+}
+
+// gradedRectangle builds a structured rectangle whose rows (or columns)
+// next to the sides named by boundary layers have thicknesses first,
+// first*ratio, ..., first*ratio^(count-1), counted from the side, followed by
+// the rectangle's own uniform cells over the rest. It reports ok = false when
+// the layers do not fit that pattern (none, or on adjacent sides).
+func gradedRectangle(r *casefile.Rectangle, opt casefile.Meshing) (*mesh.Mesh, bool, error) {
+	if len(opt.Layers) == 0 {
+		return nil, false, nil
+	}
+	side := map[string][]int{}
+	for s, name := range r.Names {
+		side[name] = append(side[name], s)
+	}
+	var layerAt [4]*casefile.Grading
+	for i := range opt.Layers {
+		l := &opt.Layers[i]
+		for _, s := range side[l.Boundary] {
+			layerAt[s] = l
+		}
+	}
+	vertical := layerAt[casefile.Bottom] != nil || layerAt[casefile.Top] != nil
+	horizontal := layerAt[casefile.Left] != nil || layerAt[casefile.Right] != nil
+	if vertical && horizontal {
+		return nil, false, nil
+	}
+	// Line positions along the graded direction, from lo to hi.
+	lines := func(lo, hi float64, n int, start, end *casefile.Grading) ([]float64, error) {
+		var a, b []float64
+		total := 0.0
+		if start != nil {
+			t := start.First
+			for k := 0; k < start.Count; k++ {
+				a = append(a, t)
+				total += t
+				t *= start.Ratio
+			}
+		}
+		if end != nil {
+			t := end.First
+			for k := 0; k < end.Count; k++ {
+				b = append(b, t)
+				total += t
+				t *= end.Ratio
+			}
+		}
+		if total >= hi-lo {
+			return nil, fmt.Errorf("boundary layers %.4g m thick do not fit in %.4g m", total, hi-lo)
+		}
+		h := (hi - lo - total) / float64(n)
+		pos := []float64{lo}
+		x := lo
+		for _, t := range a {
+			x += t
+			pos = append(pos, x)
+		}
+		for k := 0; k < n; k++ {
+			x += h
+			pos = append(pos, x)
+		}
+		for k := len(b) - 1; k >= 0; k-- {
+			x += b[k]
+			pos = append(pos, x)
+		}
+		pos[len(pos)-1] = hi
+		return pos, nil
+	}
+	var xs, ys []float64
+	var err error
+	if vertical {
+		ys, err = lines(r.Y0, r.Y1, r.NY, layerAt[casefile.Bottom], layerAt[casefile.Top])
+		for k := 0; k <= r.NX; k++ {
+			xs = append(xs, r.X0+(r.X1-r.X0)*float64(k)/float64(r.NX))
+		}
+	} else {
+		xs, err = lines(r.X0, r.X1, r.NX, layerAt[casefile.Left], layerAt[casefile.Right])
+		for k := 0; k <= r.NY; k++ {
+			ys = append(ys, r.Y0+(r.Y1-r.Y0)*float64(k)/float64(r.NY))
+		}
+	}
+	if err != nil {
+		return nil, true, err
+	}
+	nx, ny := len(xs)-1, len(ys)-1
+	flat := *r
+	flat.X0, flat.Y0, flat.X1, flat.Y1, flat.NX, flat.NY = 0, 0, float64(nx), float64(ny), nx, ny
+	m, err := rectangleMesh(&flat, casefile.Meshing{})
+	if err != nil {
+		return nil, true, err
+	}
+	// Every point lies on a grid line: map index coordinates to positions.
+	for i, p := range m.Points {
+		m.Points[i] = [2]float64{xs[int(math.Round(p[0]))], ys[int(math.Round(p[1]))]}
+	}
+	if err := m.Validate(); err != nil {
+		return nil, true, err
+	}
+	return m, true, nil
 }
