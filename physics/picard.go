@@ -212,6 +212,9 @@ func (pm *picard) apply(dst, x []float64) error {
 	}
 	sol := &Solution{d: d, X: y, LinearResidual: res, frozen: fr}
 	d.restoreLevels(sol)
+	if err := pm.applyInventory(sol, fr.x); err != nil {
+		return err
+	}
 	pm.last = sol
 	if err := pm.postProcess(sol, fr); err != nil {
 		return err
@@ -224,6 +227,102 @@ func (pm *picard) apply(dst, x []float64) error {
 	copy(dst[n*nV:], sol.Pressure())
 	if err := pm.stefanVelocities(dst[pm.stefanOffset():], sol, x); err != nil {
 		return err
+	}
+	return nil
+}
+
+// applyInventory shifts the potentials of the species without potential
+// boundaries (returned with zero mean by the linear solve) so that each
+// species' amount int c_i(mu + s, P + S p) equals its inventory
+// (formulation note, section 6). The shifts s solve that small nonlinear
+// system by Newton's method with the Jacobian int dc_i/dmu_j; for the
+// ideal gas one step gives s_i = ln(N_i / int c_i) exactly.
+func (pm *picard) applyInventory(sol *Solution, x []float64) error {
+	d := pm.d
+	p, n, m := d.prob, d.n, d.m
+	var pinned []int
+	for i, g := range d.pinnedMu {
+		if g >= 0 {
+			pinned = append(pinned, i)
+		}
+	}
+	if len(pinned) == 0 {
+		return nil
+	}
+	if len(p.Inventory) != n {
+		return fmt.Errorf("physics: species %q has no potential boundary and no inventory (formulation note, section 6)", p.Mixture.Name(pinned[0]))
+	}
+	np := len(pinned)
+	shift := make([]float64, np)
+	f := make([]float64, np)
+	jac := make([]float64, np*np)
+	piv := make([]int, np)
+	nm, npr := d.U.LocalLen(), d.P.LocalLen()
+	mu := make([]float64, n)
+	c := make([]float64, n)
+	dc := make([]float64, n*n)
+	pc := sol.Pressure()
+	for it := 0; it < 50; it++ {
+		clear(f)
+		clear(jac)
+		for t := 0; t < m.NumTriangles(); t++ {
+			af := fem.ElementMap(m, t)
+			d.uq.Reinit(&af)
+			ud, pd := d.U.Dofs(t), d.P.Dofs(t)
+			for q := 0; q < d.uq.NQ; q++ {
+				for i := 0; i < n; i++ {
+					uc := sol.Potential(i)
+					var v float64
+					for a := 0; a < nm; a++ {
+						v += uc[ud[a]] * d.uq.Val[q*nm+a]
+					}
+					mu[i] = v
+				}
+				for k, i := range pinned {
+					mu[i] += shift[k]
+				}
+				var pv float64
+				for a := 0; a < npr; a++ {
+					pv += pc[pd[a]] * d.pq.Val[q*npr+a]
+				}
+				if err := pm.closure.ConcentrationsTo(c, dc, nil, mu, pm.p0+p.S*pv); err != nil {
+					return err
+				}
+				W := d.uq.W[q]
+				for k, i := range pinned {
+					f[k] += W * c[i]
+					for l, j := range pinned {
+						jac[k*np+l] += W * dc[i*n+j]
+					}
+				}
+			}
+		}
+		var worst float64
+		for k, i := range pinned {
+			f[k] -= p.Inventory[i]
+			worst = math.Max(worst, math.Abs(f[k])/p.Inventory[i])
+		}
+		if worst < 1e-13 {
+			break
+		}
+		if !luFactor(jac, np, piv) {
+			return fmt.Errorf("physics: inventory: the amounts do not fix the potential levels (singular Jacobian)")
+		}
+		luSolve(jac, np, piv, f)
+		for k := range shift {
+			shift[k] -= f[k]
+		}
+		if it == 49 {
+			return fmt.Errorf("physics: inventory: Newton iteration did not converge (relative defect %.3g)", worst)
+		}
+	}
+	one := make([]float64, d.U.Len())
+	fem.InterpolateScalar(one, d.U, func([2]float64) float64 { return 1 })
+	for k, i := range pinned {
+		uc := sol.Potential(i)
+		for g := range uc {
+			uc[g] += shift[k] * one[g]
+		}
 	}
 	return nil
 }

@@ -199,6 +199,12 @@ type Problem struct {
 	Boundary map[int]BoundaryCondition
 	// Source holds optional volume sources (nil: none).
 	Source *Source
+	// Inventory holds, per species, the amount in the domain (scaled: in
+	// units of c_ref L^2, per unit depth) that fixes the potential level of
+	// a species with no potential boundary (formulation note, section 6);
+	// nil when no species needs it. Entries of species with potential
+	// boundaries are ignored.
+	Inventory []float64
 	// QuadratureDegree is the degree of the triangle rule; zero means
 	// 2(k+1)+4.
 	QuadratureDegree int

@@ -239,16 +239,37 @@ func (s *Setup) pose() error {
 		p.Boundary[tag] = bc
 	}
 	// A species without composition data anywhere has its potential level
-	// fixed only by its inventory (formulation note, section 6), which the
-	// solver does not impose yet: refuse rather than return an arbitrary
-	// composition.
+	// fixed by its inventory (formulation note, section 6): the case's
+	// inventory, or the fill composition times the volume.
+	var area float64
+	for t := range sm.Triangles {
+		area += sm.Area(t)
+	}
 	for i := 0; i < n; i++ {
 		has := false
 		for _, bc := range p.Boundary {
 			has = has || bc.Species[i].Kind == physics.SpeciesPotential
 		}
-		if !has {
-			return fmt.Errorf("%s: species %q has no composition boundary: its amount would be set by the inventory (initial.inventory), which the solver does not impose yet; give a composition on some boundary", c.Source, c.Species[i].Name)
+		if has {
+			continue
+		}
+		if p.Inventory == nil {
+			p.Inventory = make([]float64, n)
+		}
+		switch {
+		case c.Initial.Inventory != nil && c.Initial.Inventory[i] > 0:
+			p.Inventory[i] = c.Initial.Inventory[i] / (sc.Concentration * sc.Length * sc.Length)
+		case c.Initial.MoleFractions != nil:
+			conc := make([]float64, n)
+			if err := s.Closure.ConcentrationsTo(conc, nil, nil, s.initial, s.pressure); err != nil {
+				return fmt.Errorf("%s: initial composition: %w", c.Source, err)
+			}
+			p.Inventory[i] = conc[i] * area
+		default:
+			return fmt.Errorf("%s: species %q has no composition boundary, so its amount must be given: add initial.inventory or initial.mole_fractions", c.Source, c.Species[i].Name)
+		}
+		if !(p.Inventory[i] > 0) {
+			return fmt.Errorf("%s: species %q has no composition boundary and a zero inventory", c.Source, c.Species[i].Name)
 		}
 	}
 	s.Problem = p
