@@ -239,3 +239,14 @@ func gradedRectangle(r *casefile.Rectangle, opt casefile.Meshing) (*mesh.Mesh, b
 	}
 	return m, true, nil
 }
+
+// BuildMesh returns the triangulation of case c in metres, with one boundary
+// tag per boundary name (Mesh.TagNames), as Prepare builds it (before any
+// barycentric split of a Scott–Vogelius case).
+func BuildMesh(c *casefile.Case) (*mesh.Mesh, error) {
+	m, err := buildMesh(c)
+	if err != nil {
+		return nil, fmt.Errorf("%s: geometry: %w", c.Source, err)
+	}
+	return m, nil
+}

@@ -80,6 +80,7 @@ design.`,
 	root.AddCommand(newCheckCmd(d))
 	root.AddCommand(newRunCmd(d))
 	root.AddCommand(newDemoCmd(d))
+	root.AddCommand(newMeshCmd(d))
 	return root
 }
 

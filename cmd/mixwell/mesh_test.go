@@ -1,0 +1,45 @@
+package main
+
+import (
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"mixwell/mesh"
+)
+
+func TestMeshReportsAndExports(t *testing.T) {
+	// The tiny case is a 2 x 3 rectangle with alternating diagonals: 12
+	// vertices, 12 triangles, 10 boundary edges, area 2e-4 m^2; right
+	// angles of 90 degrees and 45-degree angles (geometry of the grid).
+	path := writeCase(t, tinyCase)
+	dir := filepath.Dir(path)
+	out, vtu := filepath.Join(dir, "box.mesh"), filepath.Join(dir, "box.vtu")
+	stdout, stderr, err := execute(t, (&fakeLib{}).deps(), "mesh", path, "--out", out, "--vtu", vtu)
+	if err != nil {
+		t.Fatalf("%v\n%s", err, stderr)
+	}
+	for _, want := range []string{"12 vertices, 12 triangles", "(10 on the boundary)", "area 0.0002 m^2", "bottom 2, left 3, right 3, top 2", "wrote " + out, "wrote " + vtu} {
+		if !strings.Contains(stdout, want) {
+			t.Errorf("output lacks %q:\n%s", want, stdout)
+		}
+	}
+	m, err := mesh.ReadFile(out)
+	if err != nil {
+		t.Fatalf("reading the exported mesh: %v", err)
+	}
+	if m.NumTriangles() != 12 || len(m.TagNames) != 4 {
+		t.Errorf("exported mesh has %d triangles and %d named tags, want 12 and 4", m.NumTriangles(), len(m.TagNames))
+	}
+}
+
+func TestMeshRejectsBadCase(t *testing.T) {
+	path := writeCase(t, strings.Replace(tinyCase, "nx: 2", "nx: 0", 1))
+	_, stderr, err := execute(t, (&fakeLib{}).deps(), "mesh", path)
+	if err == nil {
+		t.Fatal("accepted a rectangle with no cells")
+	}
+	if line := errorLine(t, stderr); !strings.Contains(line, path+":") || !strings.Contains(line, "nx") {
+		t.Errorf("error line %q does not name the file and the key", line)
+	}
+}
