@@ -41,6 +41,16 @@ func Parse(name string, data []byte) (*Case, error) {
 	return parse(name, data, openFile)
 }
 
+// ParseFS is Parse with the mesh files named in the case read from fsys
+// (paths relative to filepath.Dir(name), in the slash-separated form that
+// io/fs uses) instead of the operating system's file system: for cases
+// built in memory, for example by a program that generates its own mesh.
+func ParseFS(name string, data []byte, fsys fs.FS) (*Case, error) {
+	return parse(name, data, func(path string) (io.ReadCloser, error) {
+		return fsys.Open(filepath.ToSlash(filepath.Clean(path)))
+	})
+}
+
 // opener opens a mesh file named in a case.
 type opener func(path string) (io.ReadCloser, error)
 

@@ -124,8 +124,21 @@ func (d *Discretisation) Diagnose(sol *Solution) Diagnostics {
 // terms keep the measure meaningful where the mixture barely moves while
 // its species diffuse.
 func (d *Discretisation) MassAverageResidual(sol *Solution) float64 {
+	defect, v, species := d.MassAverageNorms(sol)
+	den := math.Max(v, species)
+	if den == 0 {
+		return defect
+	}
+	return defect / den
+}
+
+// MassAverageNorms returns ||v - sum_i J_i/rho||_L2, ||v||_L2 and the
+// largest ||J_i/rho||_L2 over the species, with rho from the frozen
+// concentrations of sol (NaN when sol has none).
+func (d *Discretisation) MassAverageNorms(sol *Solution) (defect, velocity, species float64) {
+	nan := math.NaN()
 	if sol.frozen == nil {
-		return math.NaN()
+		return nan, nan, nan
 	}
 	m, n := d.m, d.n
 	w := &d.w
@@ -139,7 +152,7 @@ func (d *Discretisation) MassAverageResidual(sol *Solution) float64 {
 		d.pq.Reinit(&af)
 		d.fq.Reinit(&af)
 		if err := sol.frozen.concentrationsTo(w.c, w.gc, t, &af, 0); err != nil {
-			return math.NaN()
+			return nan, nan, nan
 		}
 		vd, fd, fs := d.V.Dofs(t), d.F.Dofs(t), d.F.Signs(t)
 		for q := 0; q < d.vq.NQ; q++ {
@@ -172,11 +185,9 @@ func (d *Discretisation) MassAverageResidual(sol *Solution) float64 {
 			den += W * (v[0]*v[0] + v[1]*v[1])
 		}
 	}
+	var sp float64
 	for _, v := range spec {
-		den = math.Max(den, v)
+		sp = math.Max(sp, v)
 	}
-	if den == 0 {
-		return math.Sqrt(num)
-	}
-	return math.Sqrt(num / den)
+	return math.Sqrt(num), math.Sqrt(den), math.Sqrt(sp)
 }

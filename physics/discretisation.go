@@ -53,8 +53,19 @@ type Discretisation struct {
 	// pressure mode, or -1; pinnedMu[i] likewise for mu_i.
 	pinnedP  int
 	pinnedMu []int
-	// hasPotential[i] reports a potential boundary for species i.
+	// hasPotential[i] reports a boundary that fixes the level of mu_i: a
+	// potential (composition) boundary or an outflow.
 	hasPotential []bool
+	// outflow lists the outflow edges; outflowOf maps a triangle to its
+	// entries in outflow; out holds the outlet linearisation of the
+	// current step (outflow.go).
+	// convection reports the linearised treatment of the species
+	// velocities (Problem.Convection).
+	convection bool
+	outflow    []outflowEdge
+	outflowOf  map[int][]int
+	out        outletData
+	ue         *fem.EdgeQuad
 	// edgeCond lists, per triangle with boundary edges, the local edges
 	// with natural data.
 	bnd []boundaryEdge
@@ -68,6 +79,12 @@ type Discretisation struct {
 
 	lu *solver.LU
 	w  assemblyWork
+	// convActive reports whether the last assembly had non-zero
+	// linearised-convection blocks, luActive whether the factorisation's
+	// ordering was computed with them: the first Picard step has none
+	// (no previous flux), and an ordering chosen for those values pivots
+	// badly once the blocks fill in, so it is recomputed then.
+	convActive, luActive bool
 }
 
 // stefanDof is the normal velocity unknown of a Stefan-wall node: the global
@@ -143,6 +160,8 @@ func NewDiscretisation(p *Problem) (*Discretisation, error) {
 	d.ve = fem.NewScalarEdgeQuad(d.velEl, npts)
 	d.pe = fem.NewScalarEdgeQuad(d.presEl, npts)
 	d.fe = fem.NewDivEdgeQuad(d.fluxEl, npts)
+	d.ue = fem.NewScalarEdgeQuad(d.potEl, npts)
+	d.convection = p.linearisedConvection()
 	d.sys = fem.NewPatternSystem(d.lay.Len())
 	if err := d.fixEssential(); err != nil {
 		return nil, err
@@ -238,7 +257,7 @@ func (d *Discretisation) fixEssential() error {
 			}
 		}
 		for i, sc := range bc.Species {
-			if sc.Kind == SpeciesPotential {
+			if sc.Kind == SpeciesPotential || sc.Kind == SpeciesOutflow {
 				d.hasPotential[i] = true
 				continue
 			}
@@ -289,6 +308,9 @@ func (d *Discretisation) fixEssential() error {
 		g := d.lay.Offset(blockP) + d.P.Dofs(0)[0]
 		d.sys.Fix(g, 0)
 		d.pinnedP = g
+	}
+	if err := d.collectOutflow(); err != nil {
+		return err
 	}
 	// Boundary edges with natural data.
 	for _, t := range tags {
@@ -434,6 +456,13 @@ func (d *Discretisation) couple() {
 			}
 			d.sys.Couple(off(blockJ0+n+i), ud, off(blockJ0+i), fd)
 			d.sys.Couple(off(blockJ0+i), fd, off(blockJ0+n+i), ud)
+			// The outflow rows of a species, and with the linearised
+			// convection every row, couple to every potential.
+			if d.convection || len(d.outflowOf[t]) > 0 {
+				for k := 0; k < n; k++ {
+					d.sys.Couple(off(blockJ0+i), fd, off(blockJ0+n+k), ud)
+				}
+			}
 		}
 	}
 }
@@ -490,6 +519,12 @@ type assemblyWork struct {
 	g                  [][2]float64
 	gram               []float64
 	gsign              []float64
+	// Linearised convection: dc_j/dmu_k, previous species velocities and
+	// potentials at the quadrature points, and the flux–potential blocks.
+	dcq   []float64
+	vhat  [][2]float64
+	muhat []float64
+	juk   [][]float64
 }
 
 func newAssemblyWork(d *Discretisation) assemblyWork {
@@ -531,6 +566,15 @@ func newAssemblyWork(d *Discretisation) assemblyWork {
 	w.g = make([][2]float64, n)
 	w.gram = make([]float64, nf*nf)
 	w.gsign = make([]float64, nf)
+	if d.convection {
+		w.dcq = make([]float64, w.nq*n*n)
+		w.vhat = make([][2]float64, w.nq*n)
+		w.muhat = make([]float64, w.nq*n)
+		w.juk = make([][]float64, n*n)
+		for i := range w.juk {
+			w.juk[i] = make([]float64, nf*nm)
+		}
+	}
 	return w
 }
 
@@ -545,14 +589,33 @@ func (d *Discretisation) assemble(fr frozenField) (*solver.CSR, []float64, error
 	mix := p.Mixture
 	off := d.lay.Offset
 	d.sys.Reset()
+	d.convActive = false
 	for t := 0; t < m.NumTriangles(); t++ {
 		af := fem.ElementMap(m, t)
 		d.vq.Reinit(&af)
 		d.pq.Reinit(&af)
 		d.uq.Reinit(&af)
 		d.fq.Reinit(&af)
+		sf, conv := fr.(stateField)
+		conv = conv && d.convection
+		if conv {
+			sf.dc = w.dcq
+			fr = sf
+		}
 		if err := fr.concentrationsTo(w.c, w.gc, t, &af, 0); err != nil {
 			return nil, nil, fmt.Errorf("physics: triangle %d: %w", t, err)
+		}
+		if conv {
+			sf.previousTo(w.vhat, w.muhat, t, w.c)
+			for _, v := range w.vhat {
+				if v != [2]float64{} {
+					d.convActive = true
+					break
+				}
+			}
+			for i := range w.juk {
+				clear(w.juk[i])
+			}
 		}
 		for c := 0; c < 2; c++ {
 			for e := 0; e < 2; e++ {
@@ -698,6 +761,50 @@ func (d *Discretisation) assemble(fr frozenField) (*solver.CSR, []float64, error
 					}
 				}
 			}
+			// Linearised species velocities: row i gains
+			// -sum_j M_ij/rho_i (v^_j . K_i) sum_k (dc_j/dmu_k / c_j)(mu_k - mu^_k).
+			if conv {
+				dcq := w.dcq[q*n*n : (q+1)*n*n]
+				vh := w.vhat[q*n : (q+1)*n]
+				muh := w.muhat[q*n : (q+1)*n]
+				// The previous total flux T^ = sum_j rho^_j v^_j.
+				var That [2]float64
+				for j := 0; j < n; j++ {
+					rj := mix.mass[j] * cq[j]
+					That[0] += rj * vh[j][0]
+					That[1] += rj * vh[j][1]
+				}
+				for i := 0; i < n; i++ {
+					ri := mix.mass[i] * cq[i]
+					for k := 0; k < n; k++ {
+						// g = sum_j M_ij/rho_i v^_j dc_jk / c_j (a vector),
+						// plus the augmentation's (S gamma + beta) T^
+						// drho/dmu_k / rho^3 from 1/rho in sum_j J_j/rho.
+						var g [2]float64
+						var drho float64
+						for j := 0; j < n; j++ {
+							f := w.mm[i*n+j] / ri * dcq[j*n+k] / cq[j]
+							g[0] += f * vh[j][0]
+							g[1] += f * vh[j][1]
+							drho += mix.mass[j] * dcq[j*n+k]
+						}
+						f := (S*gam + beta) * drho / (rho * rho * rho)
+						g[0] += f * That[0]
+						g[1] += f * That[1]
+						if g == [2]float64{} {
+							continue
+						}
+						blk := w.juk[i*n+k]
+						for a := 0; a < nf; a++ {
+							f := -W * (g[0]*fv[a][0] + g[1]*fv[a][1])
+							for s := 0; s < nm; s++ {
+								blk[a*nm+s] += f * chi[s]
+							}
+							w.fj[i][a] += f * muh[k]
+						}
+					}
+				}
+			}
 			// Potential–flux: -nu div K (the 1/M_i is applied per species).
 			for s := 0; s < nm; s++ {
 				f := -W * chi[s]
@@ -709,9 +816,19 @@ func (d *Discretisation) assemble(fr frozenField) (*solver.CSR, []float64, error
 		if err := d.boundaryTerms(fr, t, &af); err != nil {
 			return nil, nil, err
 		}
+		transposeTo(w.jp, w.pj, np, nf)
+		for i := range w.jp {
+			w.jp[i] *= S
+		}
+		transposeTo(w.ju, w.uj, nm, nf)
 		// Scatter.
 		vd, pd, fd, ud := d.V.Dofs(t), d.P.Dofs(t), d.F.Dofs(t), d.U.Dofs(t)
 		fs := d.F.Signs(t)
+		if len(d.outflowOf[t]) > 0 {
+			if err := d.outflowRows(t, &af); err != nil {
+				return nil, nil, err
+			}
+		}
 		for c := 0; c < 2; c++ {
 			for e := 0; e < 2; e++ {
 				d.sys.AddMatrix(off(blockVX+c), vd, nil, off(blockVX+e), vd, nil, w.vv[c][e])
@@ -725,11 +842,6 @@ func (d *Discretisation) assemble(fr frozenField) (*solver.CSR, []float64, error
 			}
 			d.sys.AddVector(off(blockVX+c), vd, nil, w.fv[c])
 		}
-		transposeTo(w.jp, w.pj, np, nf)
-		for i := range w.jp {
-			w.jp[i] *= S
-		}
-		transposeTo(w.ju, w.uj, nm, nf)
 		for i := 0; i < n; i++ {
 			d.sys.AddMatrix(off(blockP), pd, nil, off(blockJ0+i), fd, fs, w.pj)
 			d.sys.AddMatrix(off(blockJ0+i), fd, fs, off(blockP), pd, nil, w.jp)
@@ -741,6 +853,11 @@ func (d *Discretisation) assemble(fr frozenField) (*solver.CSR, []float64, error
 			d.sys.AddMatrix(off(blockJ0+n+i), ud, nil, off(blockJ0+i), fd, fs, w.gram[:nm*nf])
 			scaleInto(w.gram[:nf*nm], w.ju, inv)
 			d.sys.AddMatrix(off(blockJ0+i), fd, fs, off(blockJ0+n+i), ud, nil, w.gram[:nf*nm])
+			if conv {
+				for k := 0; k < n; k++ {
+					d.sys.AddMatrix(off(blockJ0+i), fd, fs, off(blockJ0+n+k), ud, nil, w.juk[i*n+k])
+				}
+			}
 			d.sys.AddVector(off(blockJ0+i), fd, fs, w.fj[i])
 			d.sys.AddVector(off(blockJ0+n+i), ud, nil, w.fu[i])
 		}
@@ -840,6 +957,10 @@ func scaleInto(dst, a []float64, s float64) {
 // residual.
 func (d *Discretisation) solveLinear(A *solver.CSR, b []float64) ([]float64, float64, error) {
 	var err error
+	if d.lu != nil && d.convActive && !d.luActive {
+		d.lu = nil
+	}
+	d.luActive = d.convActive
 	if d.lu == nil {
 		d.lu, err = solver.FactorLU(A, nil)
 	} else {

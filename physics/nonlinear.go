@@ -103,6 +103,9 @@ func (d *Discretisation) SolveNonlinear(s *NonlinearSettings) (*Solution, *Nonli
 			return nil, nil, fmt.Errorf("physics: initial state: %w", ferr)
 		}
 	}
+	if err := pm.initialOutletTotals(x0); err != nil {
+		return nil, nil, fmt.Errorf("physics: initial state: %w", err)
+	}
 	tol := s.Tolerance
 	if tol == 0 {
 		tol = 1e-10

@@ -56,7 +56,26 @@ type picard struct {
 }
 
 // stateLen returns the length of the Picard state.
-func (pm *picard) stateLen() int { return pm.d.n*pm.d.V.Len() + pm.d.P.Len() + len(pm.d.stefan) }
+func (pm *picard) stateLen() int {
+	return pm.previousOffset() + pm.previousLen()
+}
+
+// outletOffset is where the total normal mass fluxes at the outflow edge
+// quadrature points start in the state.
+func (pm *picard) outletOffset() int { return pm.stefanOffset() + len(pm.d.stefan) }
+
+// previousOffset is where the previous step's fluxes (n blocks of the
+// flux space) and unshifted discontinuous potentials (n blocks) start in
+// the state; they are there only with the linearised convection.
+func (pm *picard) previousOffset() int { return pm.outletOffset() + len(pm.d.outflow)*pm.d.fe.NQ }
+
+// previousLen is the length of the previous-step part of the state.
+func (pm *picard) previousLen() int {
+	if !pm.d.convection {
+		return 0
+	}
+	return pm.d.n * (pm.d.F.Len() + pm.d.U.Len())
+}
 
 // stefanOffset is where the Stefan-wall normal velocities start in the
 // state.
@@ -107,10 +126,48 @@ func newPicard(d *Discretisation, closure Closure, p0 float64, update Concentrat
 	return pm, nil
 }
 
-// stateField freezes the concentrations of a Picard state.
+// stateField freezes the concentrations of a Picard state. When dc is not
+// nil, concentrationsTo also writes dc_i/dmu_j at every point (index
+// (q*n+i)*n+j).
 type stateField struct {
 	pm *picard
 	x  []float64
+	dc []float64
+}
+
+// previousTo writes the previous step's species velocities J^_j/rho^_j
+// (rho^_j from the frozen concentrations c at the triangle rule's points)
+// and discontinuous potentials mu^_j at the points of triangle t, whose
+// rule d.vq/d.fq/d.uq must be set up for t.
+func (sf stateField) previousTo(vhat [][2]float64, muhat []float64, t int, c []float64) {
+	pm := sf.pm
+	d := pm.d
+	n := d.n
+	nF, nU := d.F.Len(), d.U.Len()
+	base := sf.x[pm.previousOffset():]
+	fd, fs, ud := d.F.Dofs(t), d.F.Signs(t), d.U.Dofs(t)
+	nf, nm := len(fd), len(ud)
+	for q := 0; q < d.vq.NQ; q++ {
+		fv := d.fq.Val[q*nf : (q+1)*nf]
+		chi := d.uq.Val[q*nm : (q+1)*nm]
+		for j := 0; j < n; j++ {
+			jc := base[j*nF : (j+1)*nF]
+			var v [2]float64
+			for b := 0; b < nf; b++ {
+				co := fs[b] * jc[fd[b]]
+				v[0] += co * fv[b][0]
+				v[1] += co * fv[b][1]
+			}
+			rj := d.prob.Mixture.mass[j] * c[q*n+j]
+			vhat[q*n+j] = [2]float64{v[0] / rj, v[1] / rj}
+			uc := base[n*nF+j*nU : n*nF+(j+1)*nU]
+			var mv float64
+			for s := 0; s < nm; s++ {
+				mv += uc[ud[s]] * chi[s]
+			}
+			muhat[q*n+j] = mv
+		}
+	}
 }
 
 func (sf stateField) concentrationsTo(c []float64, gradc [][2]float64, t int, af *fem.Affine, set int) error {
@@ -170,10 +227,17 @@ func (sf stateField) concentrationsTo(c []float64, gradc [][2]float64, t int, af
 					pm.clipped++
 				}
 			}
+			if sf.dc != nil {
+				// No potentials in this update: the convection stays lagged.
+				clear(sf.dc[q*n*n : (q+1)*n*n])
+			}
 			continue
 		}
 		if err := pm.closure.ConcentrationsTo(cq, pm.dcdmu, pm.dcdp, pm.mu, pm.p0+S*pv); err != nil {
 			return err
+		}
+		if sf.dc != nil {
+			copy(sf.dc[q*n*n:(q+1)*n*n], pm.dcdmu)
 		}
 		for i := 0; i < n; i++ {
 			g := [2]float64{pm.dcdp[i] * S * gp[0], pm.dcdp[i] * S * gp[1]}
@@ -202,6 +266,14 @@ func (pm *picard) apply(dst, x []float64) error {
 		}
 		d.sys.Fix(sd.global, x[so+k]*sd.normal[c])
 	}
+	if len(d.outflow) > 0 {
+		if pm.update == ConcentrationProjection {
+			return fmt.Errorf("physics: outflow boundaries need the potential update")
+		}
+		if err := pm.setOutlet(fr.x, fr.x[pm.outletOffset():]); err != nil {
+			return err
+		}
+	}
 	A, b, err := d.assemble(fr)
 	if err != nil {
 		return err
@@ -209,6 +281,16 @@ func (pm *picard) apply(dst, x []float64) error {
 	y, res, err := d.solveLinear(A, b)
 	if err != nil {
 		return err
+	}
+	if d.convection {
+		// The unshifted potentials, so that a fixed point compares like
+		// with like (the level shifts below are not part of the step).
+		base := dst[pm.previousOffset():]
+		nF, nU := d.F.Len(), d.U.Len()
+		for i := 0; i < d.n; i++ {
+			copy(base[i*nF:(i+1)*nF], d.lay.Block(y, blockJ0+i))
+			copy(base[d.n*nF+i*nU:d.n*nF+(i+1)*nU], d.lay.Block(y, blockJ0+d.n+i))
+		}
 	}
 	sol := &Solution{d: d, X: y, LinearResidual: res, frozen: fr}
 	d.restoreLevels(sol)
@@ -228,6 +310,7 @@ func (pm *picard) apply(dst, x []float64) error {
 	if err := pm.stefanVelocities(dst[pm.stefanOffset():], sol, x); err != nil {
 		return err
 	}
+	d.outletTotals(dst[pm.outletOffset():], sol)
 	return nil
 }
 

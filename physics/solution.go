@@ -40,6 +40,9 @@ func (s *Solution) Potential(i int) []float64 { return s.d.lay.Block(s.X, blockJ
 // the pressure or a potential was pinned to remove a null mode, the
 // pressure is returned with zero mean and the potential with zero mean.
 func (d *Discretisation) SolveFrozen(conc func(x [2]float64, c []float64, gradc [][2]float64)) (*Solution, error) {
+	if len(d.outflow) > 0 {
+		return nil, errOutflowFrozen
+	}
 	A, b, err := d.assemble(exactField{d: d, fn: conc})
 	if err != nil {
 		return nil, err

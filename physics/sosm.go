@@ -102,6 +102,13 @@ const (
 	// SpeciesPotential prescribes the chemical potential mu_i (from a
 	// composition through the closure): natural.
 	SpeciesPotential
+	// SpeciesOutflow lets the species leave with the composition of the
+	// adjacent element (formulation note, section 10 item 4): zero
+	// diffusive flux, linearised about the previous iterate, and the
+	// outgoing mixture on the equation of state at the outlet pressure.
+	// Every species of a tag must have it, on a traction (open) boundary,
+	// and only the nonlinear iteration can solve it.
+	SpeciesOutflow
 )
 
 // String names the kind.
@@ -111,6 +118,8 @@ func (k SpeciesKind) String() string {
 		return "flux"
 	case SpeciesPotential:
 		return "potential"
+	case SpeciesOutflow:
+		return "outflow"
 	}
 	return fmt.Sprintf("SpeciesKind(%d)", int(k))
 }
@@ -208,6 +217,62 @@ type Problem struct {
 	// QuadratureDegree is the degree of the triangle rule; zero means
 	// 2(k+1)+4.
 	QuadratureDegree int
+	// Convection selects how the nonlinear iteration treats the species
+	// velocities J_j/rho_j of the transport term (see ConvectionTreatment).
+	Convection ConvectionTreatment
+}
+
+// ConvectionTreatment selects how a Picard step treats the density rho_j
+// in the species velocities J_j/rho_j of the transport term.
+type ConvectionTreatment int
+
+const (
+	// ConvectionAuto linearises when the problem has an outflow boundary
+	// or a given non-zero velocity somewhere (a flow-through case), and
+	// lags otherwise.
+	ConvectionAuto ConvectionTreatment = iota
+	// ConvectionLagged freezes rho_j at the previous iterate: the
+	// classical staggered step, in which the composition carried by the
+	// flow is that of the previous iterate. Its contraction degrades as
+	// the Peclet number grows.
+	ConvectionLagged
+	// ConvectionLinearised linearises 1/rho_j(mu) about the previous
+	// iterate, J_j/rho_j ~ J_j/rho^_j - (J^_j/rho^_j) sum_k
+	// (dc_j/dmu_k / c^_j)(mu_k - mu^_k), with the previous flux J^ and
+	// discontinuous potential mu^ carried in the iteration's state: the
+	// step then transports the new composition. At a fixed point the added
+	// term vanishes, so the discrete solution is the same.
+	ConvectionLinearised
+)
+
+// String names the treatment.
+func (c ConvectionTreatment) String() string {
+	switch c {
+	case ConvectionLagged:
+		return "lagged"
+	case ConvectionLinearised:
+		return "linearised"
+	}
+	return "auto"
+}
+
+// linearisedConvection resolves ConvectionAuto.
+func (p *Problem) linearisedConvection() bool {
+	switch p.Convection {
+	case ConvectionLagged:
+		return false
+	case ConvectionLinearised:
+		return true
+	}
+	for _, bc := range p.Boundary {
+		if len(bc.Species) > 0 && bc.Species[0].Kind == SpeciesOutflow {
+			return true
+		}
+		if bc.Velocity.Kind == VelocityGiven && bc.Velocity.Velocity != nil {
+			return true
+		}
+	}
+	return false
 }
 
 // gamma returns the augmentation parameter with its default.
@@ -266,9 +331,21 @@ func (p *Problem) validate() error {
 		default:
 			return fmt.Errorf("physics: boundary %s: unknown velocity condition %d", tagLabel(p.Mesh, t), int(bc.Velocity.Kind))
 		}
+		outflow := 0
+		for _, sc := range bc.Species {
+			if sc.Kind == SpeciesOutflow {
+				outflow++
+			}
+		}
+		if outflow > 0 && outflow < n {
+			return fmt.Errorf("physics: boundary %s: outflow must hold for every species or none (%d of %d have it)", tagLabel(p.Mesh, t), outflow, n)
+		}
+		if outflow > 0 && bc.Velocity.Kind != VelocityTraction {
+			return fmt.Errorf("physics: boundary %s: outflow needs a traction (open) velocity condition, got %s", tagLabel(p.Mesh, t), bc.Velocity.Kind)
+		}
 		for i, sc := range bc.Species {
 			switch sc.Kind {
-			case SpeciesFlux:
+			case SpeciesFlux, SpeciesOutflow:
 			case SpeciesPotential:
 				if sc.Potential == nil {
 					return fmt.Errorf("physics: boundary %s, species %q: potential condition without data", tagLabel(p.Mesh, t), p.Mixture.Name(i))

@@ -71,6 +71,9 @@ type Outcome struct {
 	WallPressure float64
 	// Elapsed is the wall time of the solve.
 	Elapsed time.Duration
+	// Warnings are findings about the solution that the case data could
+	// not show (for example inflow through an outflow boundary).
+	Warnings []string
 }
 
 // Point holds every field at one point, in SI units: position (m),

@@ -248,7 +248,7 @@ func (s *Setup) pose() error {
 	for i := 0; i < n; i++ {
 		has := false
 		for _, bc := range p.Boundary {
-			has = has || bc.Species[i].Kind == physics.SpeciesPotential
+			has = has || bc.Species[i].Kind == physics.SpeciesPotential || bc.Species[i].Kind == physics.SpeciesOutflow
 		}
 		if has {
 			continue
@@ -440,7 +440,12 @@ func (s *Setup) boundary(sm *mesh.Mesh, tag int, b casefile.Boundary) (physics.B
 			bc.Species[i] = physics.SpeciesCondition{Kind: physics.SpeciesPotential, Potential: func([2]float64) float64 { return v }}
 		}
 	case casefile.Outflow:
-		return bc, errors.New("outflow species conditions are not implemented yet (give a composition)")
+		if bc.Velocity.Kind != physics.VelocityTraction {
+			return bc, errors.New("outflow needs velocity type open")
+		}
+		for i := range bc.Species {
+			bc.Species[i] = physics.SpeciesCondition{Kind: physics.SpeciesOutflow}
+		}
 	default:
 		return bc, fmt.Errorf("unknown species condition %q", spc.Kind)
 	}

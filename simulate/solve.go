@@ -57,6 +57,13 @@ func (o *Outcome) summarise() {
 	d := s.Discretisation
 	dg := d.Diagnose(o.Solution)
 	o.Diagnostics = dg
+	back := d.OutflowBackflow(o.Solution)
+	for _, tag := range s.Mesh.Tags() {
+		if r, ok := back[tag]; ok && r > 1e-8 {
+			o.Warnings = append(o.Warnings, fmt.Sprintf("boundary %s: the mixture enters through this outflow boundary (largest inward mass flux %.3g times the mean outward one); outflow gives no composition for what enters: lengthen the domain past the recirculation or give a composition there",
+				s.Mesh.TagNames[tag], r))
+		}
+	}
 	o.SpeciesBalance = dg.Balance
 	o.MassAverage = dg.MassAverage
 	perDepth := sc.MassFlux() * sc.Length // scaled flux per scaled depth -> kg/(s m)

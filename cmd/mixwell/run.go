@@ -246,6 +246,11 @@ func solveCase(cmd *cobra.Command, d deps, c *casefile.Case, data []byte, load t
 		}
 		return oneLine(serr)
 	}
+	for _, w := range outcome.Warnings {
+		fmt.Fprintf(stderr, "Warning: %s\n", w)
+	}
+	warnings = append(warnings, outcome.Warnings...)
+	shown := len(warnings)
 
 	var extra []string
 	if before != nil {
@@ -272,7 +277,7 @@ func solveCase(cmd *cobra.Command, d deps, c *casefile.Case, data []byte, load t
 	if err != nil {
 		return oneLine(err)
 	}
-	for _, w := range sum.Warnings[len(warnings):] {
+	for _, w := range sum.Warnings[shown:] {
 		fmt.Fprintf(stderr, "Warning: %s\n", w)
 	}
 	if err := report(stdout, sum, o.out); err != nil {

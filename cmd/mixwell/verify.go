@@ -118,7 +118,7 @@ is a terminal, a line per solved level is printed there unless --quiet.`,
 
 	f := cmd.Flags()
 	infos := d.problems()
-	f.StringVar(&o.problem, "problem", "", "`NAME` of the problem to solve (required): "+listOrNone(problemNames(infos)))
+	f.StringVar(&o.problem, "problem", "", "`NAME` of the problem to solve (required): "+listOrNone(append(problemNames(infos), channelProblem)))
 	for _, v := range variantFlags {
 		target := &o.flux
 		if v.flag == "pair" {
@@ -151,9 +151,13 @@ is a terminal, a line per solved level is printed there unless --quiet.`,
 // errors are misuse of the command line.
 func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemInfo) (verification.Config, error) {
 	var cfg verification.Config
-	names := problemNames(infos)
+	names := append(problemNames(infos), channelProblem)
+	slices.Sort(names)
 	if o.problem == "" {
 		return cfg, fmt.Errorf("missing --problem (valid: %s)", listOrNone(names))
+	}
+	if o.problem == channelProblem {
+		return o.channelConfig(cmd)
 	}
 	i := slices.IndexFunc(infos, func(p verification.ProblemInfo) bool { return p.Name == o.problem })
 	if i < 0 {
@@ -273,6 +277,9 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 
 func runVerify(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.Config) error {
 	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
+	if cfg.Problem == channelProblem {
+		return runChannel(cmd, d, o, cfg)
+	}
 
 	// Find out before a possibly long study that the plot cannot be
 	// written.

@@ -1,0 +1,105 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"slices"
+	"strings"
+	"text/tabwriter"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"mixwell/verification"
+)
+
+// channelProblem is the name of the flow-through channel benchmark, which
+// reports balances and mesh independence instead of convergence rates.
+const channelProblem = "channel"
+
+// channelConfig checks the flags of --problem channel.
+func (o *verifyOptions) channelConfig(cmd *cobra.Command) (verification.Config, error) {
+	var cfg verification.Config
+	flags := cmd.Flags()
+	for _, name := range []string{"flux", "pair", "mesh", "seed", "species", "flavour", "group-s", "regime", "beta", "plot"} {
+		if flags.Changed(name) {
+			return cfg, fmt.Errorf("--%s does not apply to --problem channel", name)
+		}
+	}
+	if !flags.Changed("degree") {
+		return cfg, fmt.Errorf("missing --degree: problem channel takes degrees 1, 2, 3")
+	}
+	if o.degree < 1 || o.degree > 3 {
+		return cfg, fmt.Errorf("problem channel has no degree %d (valid: 1, 2, 3)", o.degree)
+	}
+	if o.levels < 2 {
+		return cfg, fmt.Errorf("--levels must be at least 2 to compare levels, got %d", o.levels)
+	}
+	if o.coarse < 0 {
+		return cfg, fmt.Errorf("--coarse must be positive (or 0 for the default), got %d", o.coarse)
+	}
+	if !slices.Contains(methodChoices, o.method) {
+		return cfg, fmt.Errorf("unknown --method %q (valid: %s)", o.method, strings.Join(methodChoices, ", "))
+	}
+	if o.maxIter < 1 {
+		return cfg, fmt.Errorf("--max-iterations must be positive, got %d", o.maxIter)
+	}
+	if !slices.Contains(formatChoices, o.format) {
+		return cfg, fmt.Errorf("unknown --format %q (valid: %s)", o.format, strings.Join(formatChoices, ", "))
+	}
+	maxIt := o.maxIter
+	if !flags.Changed("max-iterations") {
+		maxIt = 0 // the benchmark's own default
+	}
+	return verification.Config{Problem: channelProblem, Degree: o.degree, Levels: o.levels, Coarse: o.coarse,
+		Method: o.method, MaxIterations: maxIt}, nil
+}
+
+// runChannel runs the channel benchmark and prints its result.
+func runChannel(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.Config) error {
+	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
+	cc := verification.ChannelConfig{Degree: cfg.Degree, Levels: cfg.Levels, Coarse: cfg.Coarse,
+		Method: cfg.Method, MaxIterations: cfg.MaxIterations}
+	if !o.quiet && d.isTerminal(stderr) {
+		start := time.Now()
+		cc.Progress = func(what string, unknowns int) {
+			fmt.Fprintf(stderr, "solving %s (%d unknowns; %.1f s so far)\n", what, unknowns, time.Since(start).Seconds())
+		}
+	}
+	st, err := verification.RunChannel(cc)
+	if st == nil {
+		return oneLine(err)
+	}
+	if o.format == "json" {
+		enc := json.NewEncoder(stdout)
+		enc.SetIndent("", "  ")
+		if werr := enc.Encode(st); werr != nil {
+			return fmt.Errorf("writing the results: %w", werr)
+		}
+	} else {
+		writeChannelTable(stdout, st)
+	}
+	if err != nil {
+		return oneLine(err)
+	}
+	for l, ok := range st.Converged {
+		if !ok {
+			return fmt.Errorf("channel: level %d (%d rows) did not converge in %d iterations", l+1, st.Rows[l], st.Iterations[l])
+		}
+	}
+	return nil
+}
+
+// writeChannelTable prints a channel study as a table.
+func writeChannelTable(w interface{ Write([]byte) (int, error) }, st *verification.ChannelStudy) {
+	fmt.Fprintf(w, "channel benchmark, degree %d, Peclet number %.3g, S = %.3g\n", st.Degree, st.Peclet, st.S)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "rows\tunknowns\titerations\tconverged\tpatch flux A (mol/(s m))\toutlet x_A\tmass average\tseconds\t")
+	for l := range st.Rows {
+		fmt.Fprintf(tw, "%d\t%d\t%d\t%v\t%.8e\t%.6f\t%.3e\t%.1f\t\n", st.Rows[l], st.Unknowns[l], st.Iterations[l], st.Converged[l],
+			st.PatchFlux[l], st.OutletA[l], st.MassAverageLevels[l], st.Seconds[l])
+	}
+	tw.Flush()
+	fmt.Fprintf(w, "balance %.3e, mass_average %.3e, truncation %.3e, patch flux change %.3e\n",
+		st.Balance, st.MassAverage, st.Truncation, st.PatchFluxChange)
+}
