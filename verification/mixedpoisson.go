@@ -25,7 +25,7 @@ func init() {
 // with RT_k x DG_k or BDM_{k+1} x DG_k. Expected rates (Boffi, Brezzi &
 // Fortin 2013, sec. 7.1): ||u||_L2, ||div sigma||_L2 k+1; ||sigma||_L2 k+1
 // for RT_k and k+2 for BDM_{k+1}.
-func runMixedPoisson(cfg Config, progress func(int)) (*Study, error) {
+func runMixedPoisson(cfg Config, progress func(level, unknowns int)) (*Study, error) {
 	k := cfg.Degree
 	var flux fem.DivElement
 	var err error
@@ -145,7 +145,7 @@ func runMixedPoisson(cfg Config, progress func(int)) (*Study, error) {
 		st.Unknowns = append(st.Unknowns, lay.Len())
 		st.Residuals = append(st.Residuals, res)
 		if progress != nil {
-			progress(l)
+			progress(l, st.Unknowns[l])
 		}
 	}
 	return st, nil

@@ -31,7 +31,7 @@ func init() {
 // runPoisson solves -Laplace u = f with Dirichlet data on Lagrange P_k.
 // Expected rates (common practice, e.g. Brenner & Scott, ch. 0 and 5):
 // H1 semi-norm k, L2 k+1.
-func runPoisson(cfg Config, progress func(int)) (*Study, error) {
+func runPoisson(cfg Config, progress func(level, unknowns int)) (*Study, error) {
 	k := cfg.Degree
 	meshes, kind, err := meshLevels(cfg, 2, mesh.AlternatingDiagonal)
 	if err != nil {
@@ -95,7 +95,7 @@ func runPoisson(cfg Config, progress func(int)) (*Study, error) {
 		st.Unknowns = append(st.Unknowns, s.Len())
 		st.Residuals = append(st.Residuals, res)
 		if progress != nil {
-			progress(l)
+			progress(l, st.Unknowns[l])
 		}
 	}
 	return st, nil

@@ -28,7 +28,7 @@ func registerFakePowers(t *testing.T) {
 	register(&problem{
 		name:    fakePowersName,
 		degrees: func(string) []int { return []int{1} },
-		run: func(cfg Config, progress func(int)) (*Study, error) {
+		run: func(cfg Config, progress func(level, unknowns int)) (*Study, error) {
 			coarse := cfg.Coarse
 			if coarse == 0 {
 				coarse = 2
@@ -49,7 +49,7 @@ func registerFakePowers(t *testing.T) {
 				s.Errors["u_H1"] = append(s.Errors["u_H1"], 2*h*h)
 				s.Residuals = append(s.Residuals, 1e-15)
 				if progress != nil {
-					progress(l)
+					progress(l, s.Unknowns[l])
 				}
 			}
 			return s, nil

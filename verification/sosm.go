@@ -53,7 +53,7 @@ var sosmBreak = false
 // left and top sides and a traction on the right; species fluxes given on
 // the bottom and top, potentials (and the pressure trace) on the left and
 // right, so that every kind of condition enters.
-func runSOSM(cfg Config, progress func(int)) (*Study, error) {
+func runSOSM(cfg Config, progress func(level, unknowns int)) (*Study, error) {
 	k := cfg.Degree
 	n := cfg.Species
 	if n == 0 {
@@ -239,7 +239,7 @@ func runSOSM(cfg Config, progress func(int)) (*Study, error) {
 		st.Unknowns = append(st.Unknowns, d.Len())
 		st.Residuals = append(st.Residuals, sol.LinearResidual)
 		if progress != nil {
-			progress(l)
+			progress(l, st.Unknowns[l])
 		}
 	}
 	return st, nil

@@ -72,7 +72,7 @@ func stokesLoad(x [2]float64) [2]float64 {
 // barycentrically refined meshes. Expected rates (Boffi, Brezzi & Fortin
 // 2013, ch. 8; John, Finite Element Methods for Incompressible Flow
 // Problems, 2016, ch. 4): velocity H1 and pressure L2 k+1, velocity L2 k+2.
-func runStokes(cfg Config, progress func(int)) (*Study, error) {
+func runStokes(cfg Config, progress func(level, unknowns int)) (*Study, error) {
 	k := cfg.Degree
 	vel, err := fem.NewLagrange(k + 1)
 	if err != nil {
@@ -134,7 +134,7 @@ func runStokes(cfg Config, progress func(int)) (*Study, error) {
 		st.Unknowns = append(st.Unknowns, lay.Len())
 		st.Residuals = append(st.Residuals, res)
 		if progress != nil {
-			progress(l)
+			progress(l, st.Unknowns[l])
 		}
 	}
 	return st, nil

@@ -129,7 +129,7 @@ type problem struct {
 	variants []string // first is the default; nil if none
 	// degrees returns the allowed degrees for a variant.
 	degrees func(variant string) []int
-	run     func(cfg Config, progress func(level int)) (*Study, error)
+	run     func(cfg Config, progress func(level, unknowns int)) (*Study, error)
 }
 
 var registry = map[string]*problem{}
@@ -164,7 +164,7 @@ func Problems() []ProblemInfo {
 
 // Run performs the convergence study described by cfg. progress, if not nil,
 // is called after each level is solved.
-func Run(cfg Config, progress func(level int)) (*Study, error) {
+func Run(cfg Config, progress func(level, unknowns int)) (*Study, error) {
 	p, ok := registry[cfg.Problem]
 	if !ok {
 		names := make([]string, 0, len(registry))

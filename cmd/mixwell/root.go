@@ -26,7 +26,7 @@ type deps struct {
 	// problems lists the convergence studies that verify can run.
 	problems func() []verification.ProblemInfo
 	// run performs one study, calling progress after each level.
-	run func(cfg verification.Config, progress func(level int)) (*verification.Study, error)
+	run func(cfg verification.Config, progress func(level, unknowns int)) (*verification.Study, error)
 	// isTerminal reports whether w is an interactive terminal; progress
 	// lines go to stderr only when it is.
 	isTerminal func(w io.Writer) bool

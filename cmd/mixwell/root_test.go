@@ -58,15 +58,15 @@ func TestOneLine(t *testing.T) {
 
 func TestProgressLine(t *testing.T) {
 	for _, tc := range []struct {
-		level, levels int
-		took          time.Duration
-		want          string
+		level, levels, unknowns int
+		took                    time.Duration
+		want                    string
 	}{
-		{0, 4, 1234 * time.Millisecond, "level 1/4 solved (1.2 s)"},
-		{3, 4, 65 * time.Second, "level 4/4 solved (65.0 s)"},
+		{0, 4, 289, 1234 * time.Millisecond, "level 1/4 solved (289 unknowns, 1.2 s)"},
+		{3, 4, 61234, 65 * time.Second, "level 4/4 solved (61234 unknowns, 65.0 s)"},
 	} {
-		if got := progressLine(tc.level, tc.levels, tc.took); got != tc.want {
-			t.Errorf("progressLine(%d, %d, %v) = %q, want %q", tc.level, tc.levels, tc.took, got, tc.want)
+		if got := progressLine(tc.level, tc.levels, tc.unknowns, tc.took); got != tc.want {
+			t.Errorf("progressLine(%d, %d, %d, %v) = %q, want %q", tc.level, tc.levels, tc.unknowns, tc.took, got, tc.want)
 		}
 	}
 }

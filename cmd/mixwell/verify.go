@@ -292,12 +292,12 @@ func runVerify(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.Co
 		}
 	}
 
-	var progress func(level int)
+	var progress func(level, unknowns int)
 	if !o.quiet && d.isTerminal(stderr) {
 		last := time.Now()
-		progress = func(level int) {
+		progress = func(level, unknowns int) {
 			now := time.Now()
-			fmt.Fprintln(stderr, progressLine(level, cfg.Levels, now.Sub(last)))
+			fmt.Fprintln(stderr, progressLine(level, cfg.Levels, unknowns, now.Sub(last)))
 			last = now
 		}
 	}
@@ -328,13 +328,10 @@ func runVerify(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.Co
 	return nil
 }
 
-// progressLine reports that level (counted from 0) of levels has been
-// solved, and how long it took.
-//
-// TODO: add the number of unknowns ("level 2/4 solved (12 345 unknowns,
-// 1.2 s)") once the progress callback of verification.Run passes it.
-func progressLine(level, levels int, took time.Duration) string {
-	return fmt.Sprintf("level %d/%d solved (%.1f s)", level+1, levels, took.Seconds())
+// progressLine reports that level (counted from 0) of levels, with the
+// given number of unknowns, has been solved, and how long it took.
+func progressLine(level, levels, unknowns int, took time.Duration) string {
+	return fmt.Sprintf("level %d/%d solved (%d unknowns, %.1f s)", level+1, levels, unknowns, took.Seconds())
 }
 
 func registerVerifyCompletions(cmd *cobra.Command, d deps) {

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"errors"
+	"fmt"
 	"image/png"
 	"io"
 	"os"
@@ -34,7 +35,7 @@ func (f *fakeLib) deps() deps {
 				{Name: "stokes", Variants: []string{"taylor-hood", "scott-vogelius"}, Degrees: map[string][]int{"taylor-hood": {1, 2, 3, 4}, "scott-vogelius": {1, 2, 3}}},
 			}
 		},
-		run: func(cfg verification.Config, progress func(int)) (*verification.Study, error) {
+		run: func(cfg verification.Config, progress func(level, unknowns int)) (*verification.Study, error) {
 			f.ran = append(f.ran, cfg)
 			if f.fail != nil {
 				return nil, f.fail
@@ -61,7 +62,7 @@ func (f *fakeLib) deps() deps {
 					s.PairRates["u_H1"] = append(s.PairRates["u_H1"], float64(cfg.Degree+1))
 				}
 				if progress != nil {
-					progress(l)
+					progress(l, s.Unknowns[l])
 				}
 			}
 			s.Rates["u_L2"] = float64(cfg.Degree + 2)
@@ -260,7 +261,8 @@ func TestVerifyProgress(t *testing.T) {
 		t.Fatalf("want 3 progress lines, got:\n%s", stderr)
 	}
 	for i, line := range lines {
-		if want := "level " + string(rune('1'+i)) + "/3 solved ("; !strings.HasPrefix(line, want) || !strings.HasSuffix(line, " s)") {
+		want := fmt.Sprintf("level %d/3 solved (%d unknowns, ", i+1, 10<<(2*i))
+		if !strings.HasPrefix(line, want) || !strings.HasSuffix(line, " s)") {
 			t.Errorf("progress line %d = %q, want %q...s)", i, line, want)
 		}
 	}
