@@ -450,6 +450,9 @@ type Probe struct {
 	Name     string
 	From, To [2]float64
 	Points   int
+	// FromPos and ToPos are where the end points are written in the case
+	// file, for messages of later stages.
+	FromPos, ToPos Position
 }
 
 // SpeciesIndex returns the position of the named species, or -1.

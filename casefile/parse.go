@@ -740,9 +740,11 @@ func (d *decoder) output(n *yaml.Node, c *Case) {
 			okA, okB := false, false
 			if a := d.require(pm, "from", "give the start point [x, y]"); a != nil {
 				pr.From, okA = d.vector(a, join(pp, "from"), kindLength)
+				pr.FromPos = d.pos(a)
 			}
 			if b := d.require(pm, "to", "give the end point [x, y]"); b != nil {
 				pr.To, okB = d.vector(b, join(pp, "to"), kindLength)
+				pr.ToPos = d.pos(b)
 			}
 			if okA && okB && pr.From == pr.To {
 				d.fail(pm.get("to"), join(pp, "to"), "the end point equals the start point")

@@ -52,11 +52,16 @@ func CheckProbes(c *casefile.Case, m *mesh.Mesh) error {
 		for _, end := range []struct {
 			key string
 			x   [2]float64
-		}{{"from", p.From}, {"to", p.To}} {
+			pos casefile.Position
+		}{{"from", p.From, p.FromPos}, {"to", p.To, p.ToPos}} {
 			x := end.x
 			if x[0] < lo[0]-tol || x[0] > hi[0]+tol || x[1] < lo[1]-tol || x[1] > hi[1]+tol {
+				where := end.pos
+				if where.File == "" {
+					where = casefile.Position{File: c.Source}
+				}
 				return fmt.Errorf("%s: output.probes[%d].%s: probe %q: point (%g, %g) m lies outside the domain, which spans [%g, %g] x [%g, %g] m",
-					c.Source, i, end.key, p.Name, x[0], x[1], lo[0], hi[0], lo[1], hi[1])
+					where, i, end.key, p.Name, x[0], x[1], lo[0], hi[0], lo[1], hi[1])
 			}
 		}
 	}

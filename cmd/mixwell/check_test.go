@@ -69,7 +69,7 @@ var badCases = []struct {
 	{"unknown boundary", tinyCase + "  west: {velocity: wall}\n",
 		`^:23:3: boundaries\.west: `, []string{`no boundary "west"`}},
 	{"probe outside the domain", tinyCase + "output:\n  probes:\n    - {name: far, from: [5, 0], to: [5, 20]}\n",
-		`^: output\.probes\[0\]\.from: `, []string{`probe "far"`, "outside the domain"}},
+		`^:25:\d+: output\.probes\[0\]\.from: `, []string{`probe "far"`, "outside the domain"}},
 }
 
 func TestCheckRejectsBadCases(t *testing.T) {
