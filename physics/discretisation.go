@@ -59,6 +59,10 @@ type Discretisation struct {
 	// outflow lists the outflow edges; outflowOf maps a triangle to its
 	// entries in outflow; out holds the outlet linearisation of the
 	// current step (outflow.go).
+	// pressureRule reports that the pressure is pinned although some
+	// species has potential data: p_b on potential boundaries is then the
+	// previous iterate's pressure trace.
+	pressureRule bool
 	// convection reports the linearised treatment of the species
 	// velocities (Problem.Convection).
 	convection bool
@@ -304,10 +308,16 @@ func (d *Discretisation) fixEssential() error {
 		d.sys.Fix(g, 0)
 		d.pinnedMu[i] = g
 	}
-	if allVelocityEssential && !anyPotential {
+	// With no traction boundary the pressure level is fixed only through
+	// the O(S) terms when some species has potential data (formulation
+	// note, section 10 item 5): pin it too, report it with zero mean, and
+	// let the nonlinear iteration take p_b on potential boundaries from
+	// the previous iterate's pressure trace (pressureRule).
+	if allVelocityEssential {
 		g := d.lay.Offset(blockP) + d.P.Dofs(0)[0]
 		d.sys.Fix(g, 0)
 		d.pinnedP = g
+		d.pressureRule = anyPotential
 	}
 	if err := d.collectOutflow(); err != nil {
 		return err
@@ -921,6 +931,9 @@ func (d *Discretisation) boundaryTerms(fr frozenField, t int, af *fem.Affine) er
 			pb := 0.0
 			if bc.Pressure != nil {
 				pb = bc.Pressure(xq)
+			}
+			if sf, ok := fr.(stateField); ok && d.pressureRule {
+				pb = sf.edgePressure(t, le, q)
 			}
 			for i, sc := range bc.Species {
 				if sc.Kind != SpeciesPotential {

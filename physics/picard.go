@@ -135,6 +135,20 @@ type stateField struct {
 	dc []float64
 }
 
+// edgePressure returns the state's pressure at point q of the edge rule on
+// local edge le of triangle t.
+func (sf stateField) edgePressure(t, le, q int) float64 {
+	d := sf.pm.d
+	pd := d.P.Dofs(t)
+	np := len(pd)
+	pc := sf.x[d.n*d.V.Len():]
+	var v float64
+	for a := 0; a < np; a++ {
+		v += pc[pd[a]] * d.pe.Value[le][q*np+a]
+	}
+	return v
+}
+
 // previousTo writes the previous step's species velocities J^_j/rho^_j
 // (rho^_j from the frozen concentrations c at the triangle rule's points)
 // and discontinuous potentials mu^_j at the points of triangle t, whose
