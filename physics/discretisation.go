@@ -220,18 +220,20 @@ func (d *Discretisation) fixEssential() error {
 	// Stefan walls next: tangential component 0, normal component set by
 	// the iteration; a given velocity overrides them at shared corners.
 	stefanAt := map[int]stefanDof{}
+	tangential := map[int]bool{}
 	for _, t := range tags {
 		bc := p.Boundary[t]
 		if bc.Velocity.Kind != VelocityStefan {
 			continue
 		}
-		c, err := slipComponent(m, t)
-		if err != nil {
+		if err := d.collectStefan(t, stefanAt, tangential); err != nil {
 			return err
 		}
-		if err := d.collectStefan(t, c, stefanAt); err != nil {
-			return err
-		}
+	}
+	// At a corner of a Stefan wall a node's normal component on one side
+	// is tangential on the other: it stays 0 (corner precedence).
+	for g := range tangential {
+		delete(stefanAt, g)
 	}
 	for _, t := range tags {
 		bc := p.Boundary[t]
@@ -341,9 +343,10 @@ func (d *Discretisation) fixEssential() error {
 func (d *Discretisation) givenAt(g int) bool { return d.given[g] }
 
 // collectStefan fixes the velocity unknowns on the Stefan wall with tag t,
-// whose normal is coordinate direction c: the tangential component to 0,
-// the normal one to 0 for now, recording the normal ones in at.
-func (d *Discretisation) collectStefan(t, c int, at map[int]stefanDof) error {
+// edge by edge (each parallel to a coordinate axis): the tangential
+// component to 0, recorded in tangential, and the normal one to 0 for now,
+// recorded in at.
+func (d *Discretisation) collectStefan(t int, at map[int]stefanDof, tangential map[int]bool) error {
 	m := d.m
 	ents := d.velEl.Entities()
 	nodes := d.velEl.Nodes()
@@ -354,13 +357,19 @@ func (d *Discretisation) collectStefan(t, c int, at map[int]stefanDof) error {
 			return err
 		}
 		nrm, _ := fem.OutwardNormal(m, e)
+		c := 0
+		if math.Abs(nrm[0]) < 1e-12 {
+			c = 1
+		}
 		gd := d.V.Dofs(tri)
 		for a, en := range ents {
 			on := en.Kind == fem.OnEdge && en.Index == le || en.Kind == fem.AtVertex && en.Index != le
 			if !on {
 				continue
 			}
-			d.sys.Fix(d.lay.Offset(blockVX+1-c)+gd[a], 0)
+			gt := d.lay.Offset(blockVX+1-c) + gd[a]
+			d.sys.Fix(gt, 0)
+			tangential[gt] = true
 			g := d.lay.Offset(blockVX+c) + gd[a]
 			d.sys.Fix(g, 0)
 			if _, seen := at[g]; !seen {

@@ -324,8 +324,12 @@ func (p *Problem) validate() error {
 					return err
 				}
 			}
-		case VelocitySlip, VelocityStefan:
+		case VelocitySlip:
 			if _, err := slipComponent(p.Mesh, t); err != nil {
+				return err
+			}
+		case VelocityStefan:
+			if err := axisParallelEdges(p.Mesh, t); err != nil {
 				return err
 			}
 		default:
@@ -406,4 +410,17 @@ func slipComponent(m *mesh.Mesh, t int) (int, error) {
 		return 0, fmt.Errorf("physics: slip boundary %s has no edges", tagLabel(m, t))
 	}
 	return comp, nil
+}
+
+// axisParallelEdges returns an error naming tag t unless each of its edges
+// is parallel to a coordinate axis (a Stefan wall may turn corners, as
+// round a rectangular block).
+func axisParallelEdges(m *mesh.Mesh, t int) error {
+	for _, e := range m.BoundaryEdges(t) {
+		n, _ := fem.OutwardNormal(m, e)
+		if math.Abs(n[0]) > 1e-12 && math.Abs(n[1]) > 1e-12 {
+			return fmt.Errorf("physics: Stefan-wall boundary %s has an edge not parallel to a coordinate axis (sloped or curved Stefan walls are not supported)", tagLabel(m, t))
+		}
+	}
+	return nil
 }

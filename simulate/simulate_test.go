@@ -173,3 +173,41 @@ func poiseuille(t *testing.T, from, to string) {
 		t.Errorf("composition drifts by %.3g from uniform", worstX)
 	}
 }
+
+func TestOutflowBackflowWarning(t *testing.T) {
+	// Bad input of the flow-through issue: an outflow boundary through
+	// which the mixture enters. The Poiseuille channel with the inflow
+	// reversed (the mixture leaves through the "inlet" and enters through
+	// the outflow boundary): the outcome must carry a warning naming the
+	// boundary, whether or not the iteration converges.
+	data := mustRead(t, "../testdata/cases/poiseuille.yaml")
+	for _, r := range [][2]string{
+		{"velocity: {type: inflow, profile: parabolic, mean_speed: 1 cm/s}\n    species: {type: composition,", "velocity: {type: inflow, vector: [-1 cm/s, 0]}\n    species: {type: convective-inflow,"},
+		{"    velocity: {type: open, pressure: 0 Pa}\n    species: {type: composition, mole_fractions: {A: 0.2, B: 0.5, C: 0.3}}", "    velocity: {type: open, pressure: 0 Pa}\n    species: outflow"},
+	} {
+		if !strings.Contains(data, r[0]) {
+			t.Fatalf("text %q not found in the case", r[0])
+		}
+		data = strings.Replace(data, r[0], r[1], 1)
+	}
+	data += "solver: {max_iterations: 3}\n"
+	c, err := casefile.Parse("../testdata/cases/poiseuille.yaml", []byte(data))
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := Prepare(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	o, _ := s.Solve(nil)
+	if o == nil {
+		t.Fatal("no outcome")
+	}
+	found := false
+	for _, w := range o.Warnings {
+		found = found || strings.Contains(w, "boundary outlet: the mixture enters")
+	}
+	if !found {
+		t.Errorf("warnings %q, want one naming boundary outlet", o.Warnings)
+	}
+}

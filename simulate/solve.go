@@ -59,8 +59,14 @@ func (o *Outcome) summarise() {
 	o.Diagnostics = dg
 	back := d.OutflowBackflow(o.Solution)
 	for _, tag := range s.Mesh.Tags() {
-		if r, ok := back[tag]; ok && r > 1e-8 {
-			o.Warnings = append(o.Warnings, fmt.Sprintf("boundary %s: the mixture enters through this outflow boundary (largest inward mass flux %.3g times the mean outward one); outflow gives no composition for what enters: lengthen the domain past the recirculation or give a composition there",
+		r, ok := back[tag]
+		switch {
+		case !ok || !(r > 1e-8):
+		case math.IsInf(r, 1):
+			o.Warnings = append(o.Warnings, fmt.Sprintf("boundary %s: the mixture enters through this outflow boundary on balance; outflow gives no composition for what enters: make it an inflow, or give a composition there",
+				s.Mesh.TagNames[tag]))
+		default:
+			o.Warnings = append(o.Warnings, fmt.Sprintf("boundary %s: the mixture enters through part of this outflow boundary (largest inward mass flux %.3g times the mean outward one); outflow gives no composition for what enters: lengthen the domain past the recirculation or give a composition there",
 				s.Mesh.TagNames[tag], r))
 		}
 	}
