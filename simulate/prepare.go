@@ -378,9 +378,12 @@ func (s *Setup) boundary(sm *mesh.Mesh, tag int, b casefile.Boundary) (physics.B
 		if _, _, nrm, err := segmentOf(sm, tag); err == nil && (math.Abs(nrm[0]) < 1e-12 || math.Abs(nrm[1]) < 1e-12) {
 			bc.Velocity.NoTangential = true
 		}
-		pb := vel.Pressure / sc.Pressure()
-		bc.Velocity.Traction = func(_, nrm [2]float64) [2]float64 { return [2]float64{-pb * nrm[0], -pb * nrm[1]} }
-		bc.Pressure = func([2]float64) float64 { return pb }
+		pb, err := s.openPressure(sm, tag, vel.Pressure/sc.Pressure())
+		if err != nil {
+			return bc, err
+		}
+		bc.Velocity.Traction = func(x, nrm [2]float64) [2]float64 { p := pb(x); return [2]float64{-p * nrm[0], -p * nrm[1]} }
+		bc.Pressure = pb
 	case casefile.StefanWall:
 		bc.Velocity.Kind = physics.VelocityStefan
 	default:
@@ -485,4 +488,41 @@ func method(m casefile.Method) (solver.FixedPointMethod, error) {
 		return solver.Anderson, nil
 	}
 	return solver.ParseFixedPointMethod(string(m))
+}
+
+// openPressure returns the scaled dynamic pressure along the open boundary
+// with the given tag: the case's value p0 at the boundary's midpoint
+// (length-weighted mean of its edge midpoints) and, under gravity, the
+// hydrostatic variation rho_0 g.(x - x_mid) with the density rho_0 of the
+// initial composition, so that a vertical outlet does not contradict the
+// hydrostatic pressure that gravity builds.
+func (s *Setup) openPressure(m *mesh.Mesh, tag int, p0 float64) (func([2]float64) float64, error) {
+	fg := s.Scales.Density * s.Scales.Length * s.Scales.Length / (s.Scales.Viscosity * s.Scales.Velocity())
+	g := [2]float64{s.Case.Gravity[0] * fg, s.Case.Gravity[1] * fg}
+	if g == [2]float64{} {
+		return func([2]float64) float64 { return p0 }, nil
+	}
+	var mid [2]float64
+	var length float64
+	for _, e := range m.BoundaryEdges(tag) {
+		a, b := m.Points[m.Edges[e][0]], m.Points[m.Edges[e][1]]
+		l := math.Hypot(b[0]-a[0], b[1]-a[1])
+		mid[0] += l * (a[0] + b[0]) / 2
+		mid[1] += l * (a[1] + b[1]) / 2
+		length += l
+	}
+	mid[0] /= length
+	mid[1] /= length
+	n := len(s.initial)
+	conc := make([]float64, n)
+	if err := s.Closure.ConcentrationsTo(conc, nil, nil, s.initial, s.pressure); err != nil {
+		return nil, err
+	}
+	var rho float64
+	for i, ci := range conc {
+		rho += s.scaledMass(i) * ci
+	}
+	return func(x [2]float64) float64 {
+		return p0 + rho*(g[0]*(x[0]-mid[0])+g[1]*(x[1]-mid[1]))
+	}, nil
 }
