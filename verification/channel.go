@@ -117,8 +117,7 @@ func channelCase(cfg ChannelConfig, rows int, length float64) (*casefile.Case, e
 		xs = append(xs, H-d, H+d, 2*H-d, 2*H+d)
 		ys = append(ys, d)
 	}
-	sort.Float64s(xs)
-	sort.Float64s(ys)
+	xs, ys = uniqueSorted(xs, 1e-9*H), uniqueSorted(ys, 1e-9*H)
 	xs[len(xs)-1], ys[len(ys)-1] = length*H, H
 	r, err := mesh.Rectangle(0, 0, float64(len(xs)-1), float64(len(ys)-1), len(xs)-1, len(ys)-1, mesh.RightDiagonal)
 	if err != nil {
@@ -312,4 +311,17 @@ func largestMoleFractionDifference(a, b *simulate.Outcome, length, height float6
 		}
 	}
 	return worst
+}
+
+// uniqueSorted sorts a and drops entries within tol of their predecessor
+// (grading points that coincide with grid lines or with each other).
+func uniqueSorted(a []float64, tol float64) []float64 {
+	sort.Float64s(a)
+	out := a[:1]
+	for _, v := range a[1:] {
+		if v-out[len(out)-1] > tol {
+			out = append(out, v)
+		}
+	}
+	return out
 }
