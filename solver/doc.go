@@ -41,11 +41,13 @@
 // Matrix Anal. Appl. 17, 1996), reverse Cuthill–McKee, or the natural
 // order. For saddle-point matrices (zero diagonal in the constraint block)
 // the minimum degree ordering pairs each constraint with a coupled
-// unknown, chosen on the scaled matrix among its numerically significant
-// couplings, and orders the pair as one node, so that every leading block of
-// the permuted matrix is nonsingular and diagonal pivots exist (after Duff
-// and Pralet, SIAM J. Matrix Anal. Appl. 27, 2005, and Bridson's
-// constrained orderings, 2005); see MinimumDegreeOrder.
+// unknown, chosen on the scaled matrix among the couplings that make a sound
+// 2×2 pivot (judged by the geometric mean of the two entries, so that
+// one-sided couplings of unsymmetric matrices do not count), and orders the
+// pair as one node, so that every leading block of the permuted matrix is
+// nonsingular and diagonal pivots exist (after Duff and Pralet, SIAM J.
+// Matrix Anal. Appl. 27, 2005, and Bridson's constrained orderings, 2005);
+// see MinimumDegreeOrder.
 //
 // By default the matrix is first equilibrated, D A D with the symmetric
 // Ruiz scaling of EquilibrateSymmetricTo, and the scaling is undone inside
@@ -53,10 +55,15 @@
 // J. Sci. Stat. Comput. 9, 1988): each column is a sparse triangular solve
 // whose pattern is found by depth-first search. The pivot is the diagonal
 // entry of the permuted matrix when its magnitude is at least τ (default
-// 0.1) times the largest candidate of its column; otherwise, of the
-// candidates within the threshold, the one whose row comes earliest in the
-// ordering (a pair is then pivoted as a 2×2 block), so unsymmetric and indefinite
-// matrices are handled too. Refactor reuses the ordering for new values.
+// 0.1) times the largest candidate of its column. Otherwise the column is
+// postponed until its ancestors in the elimination tree have been
+// eliminated and retried then (delayed pivots, after Duff and Reid, ACM
+// Trans. Math. Softw. 9, 1983); a constraint pair is instead pivoted as a
+// 2×2 block when that block passes the threshold test, and a column that
+// cannot wait takes, of the candidates within the threshold, the one whose
+// row comes earliest in the ordering. So unsymmetric and indefinite
+// matrices are handled too. Refactor reuses the order of elimination,
+// delays included, for new values.
 //
 // Failures return errors that carry data: ErrNotSquare (wrapped, with the
 // dimensions), *SingularError (the column and pivot step, structural or

@@ -36,10 +36,21 @@ type LUSettings struct {
 	// PivotThreshold τ in (0, 1]: the diagonal entry (in the permuted
 	// order) is kept as pivot when its magnitude is at least τ times the
 	// largest magnitude among the candidates of its column; otherwise the
-	// candidate within that bound whose row comes first in the column
-	// ordering is taken. τ = 1 is partial pivoting; smaller τ keeps more
-	// diagonal pivots and so less fill. Zero means DefaultPivotThreshold.
+	// column is postponed (delayed pivots, see LU) or, when it cannot
+	// wait, the candidate within that bound whose row comes first in the
+	// column ordering is taken. τ = 1 is partial pivoting; smaller τ keeps
+	// more diagonal pivots. Zero means DefaultPivotThreshold. (The
+	// saddle-point pairing of MinimumDegree judges pairs against
+	// DefaultPivotThreshold.)
 	PivotThreshold float64
+	// NoDelayedPivots switches delayed pivots off: a column whose diagonal
+	// fails the threshold test then takes an off-diagonal pivot at once
+	// instead of waiting for its diagonal to grow (see LU). It is there
+	// for comparisons: on species systems of Stefan-tube cases (6 897 to
+	// 68 879 unknowns) delayed pivots gave 1.1 to 17 times less fill and
+	// residuals near 1e-15, where without them one factorisation grew
+	// entries to a residual of 1e34 (our measurements).
+	NoDelayedPivots bool
 }
 
 // LUStats describes a factorisation.
@@ -60,6 +71,11 @@ type LUStats struct {
 	// columns also count in OffDiagonalPivots, so the pivots that left the
 	// ordering number OffDiagonalPivots − 2·SwappedPairs.
 	SwappedPairs int
+	// DelayedColumns counts the columns whose elimination was postponed
+	// at least once because their diagonal failed the threshold test, and
+	// Delays the postponements; each costs one more sparse triangular solve
+	// of the column (see LU).
+	DelayedColumns, Delays int
 	// OrderTime is the time spent computing the column ordering and
 	// FactorTime the time of the last numerical factorisation.
 	OrderTime, FactorTime time.Duration
@@ -98,11 +114,44 @@ func (e *SingularError) Error() string {
 // arithmetic operations", SIAM J. Sci. Stat. Comput. 9(5), 862–874, 1988),
 // with the symmetric pruning of Eisenstat and Liu to shorten the searches.
 //
+// Delayed pivots: when the diagonal entry of a column fails the threshold
+// test, the column is not forced onto an off-diagonal pivot (a row
+// interchange with a row far ahead in the ordering, which breaks the
+// symmetric structure the ordering was computed for, takes the diagonal
+// row of a later column and so starts a cascade of further interchanges).
+// Instead its elimination is postponed, row and column together, until its
+// diagonal has had the chance to grow: in the elimination tree of the
+// pattern of A + Aᵀ in the column ordering (J. W. H. Liu, "The role of
+// elimination trees in sparse factorization", SIAM J. Matrix Anal. Appl.
+// 11(1), 134–172, 1990), the first later column whose elimination updates
+// the diagonal of column j is its parent, so j is retried right after its
+// parent has been eliminated, then after the ancestor two levels further
+// up, then four, and so on (the doubling keeps the number of retries
+// logarithmic in the height of the tree). A column without a remaining
+// ancestor is retried at the end, and then takes an off-diagonal pivot if
+// it still must. This is the delayed pivoting of multifrontal methods for
+// symmetric indefinite matrices (I. S. Duff and J. K. Reid, "The
+// multifrontal solution of indefinite sparse symmetric linear equations",
+// ACM Trans. Math. Softw. 9(3), 302–325, 1983, where a failed pivot moves to
+// the parent front), carried over to a left-looking factorisation, in
+// which a postponed column has not yet changed anything and can simply be
+// solved again later. The diagonal pivots then still satisfy the threshold
+// test, so the stability bound is that of threshold pivoting. Two kinds of
+// columns take an off-diagonal pivot at once: those whose diagonal row was
+// already taken by another column, and the first column of a constraint
+// pair of the ordering whose candidate row is the diagonal row of the next
+// column, when the pair passes the threshold test as a 2×2 block pivot (a
+// look-ahead solve of the next column tells; the pair is then pivoted
+// crosswise, LUStats.SwappedPairs). The
+// column ordering actually used, delays included, is kept for Refactor
+// and reported by ColumnOrder.
+//
 // An LU may be used by several goroutines at once for solves; Refactor must
 // not run concurrently with anything else on the same LU.
 type LU struct {
 	n       int
 	tau     float64
+	noDelay bool      // LUSettings.NoDelayedPivots
 	scale   []float64 // diagonal scaling D, or nil
 	doScale bool
 	q       []int // q[k]: column of A eliminated at step k
@@ -149,7 +198,7 @@ func FactorLU(a *CSR, s *LUSettings) (*LU, error) {
 	if err := checkFinite(a); err != nil {
 		return nil, err
 	}
-	f := &LU{n: r, tau: set.PivotThreshold, doScale: set.Scaling == SymmetricScaling}
+	f := &LU{n: r, tau: set.PivotThreshold, noDelay: set.NoDelayedPivots, doScale: set.Scaling == SymmetricScaling}
 	// The equilibration serves both the pairing of the saddle-point
 	// ordering and the factorisation: compute it once (its time counts as
 	// factorisation time, as in Refactor).
@@ -175,7 +224,8 @@ func FactorLU(a *CSR, s *LUSettings) (*LU, error) {
 }
 
 // Refactor recomputes the factorisation for a new matrix of the same order,
-// keeping the column ordering computed by FactorLU (pivoting is done afresh).
+// starting from the column ordering of the last successful factorisation,
+// delays included (pivoting and delaying are done afresh).
 // The ordering was chosen for the pattern of the first matrix; a matrix
 // with another pattern is still factorised correctly but may fill in more.
 // On error the LU is unusable until a later Refactor succeeds.
@@ -269,91 +319,26 @@ func (f *LU) factorScaled(a *CSR, scale []float64) (err error) {
 	for i := range pinv {
 		pinv[i] = -1
 	}
-	x := make([]float64, n)  // dense accumulator, indexed by row of A
-	reach := make([]int, n)  // reach[top:] holds the pattern in topological order
-	mark := make([]int, n)   // mark[i] == k+1: row i visited at step k
-	stack := make([]int, n)  // depth-first search stack of rows
-	cursor := make([]int, n) // next child position per stack level
-	offDiag := 0
-	swapped, swapFrom := 0, -2 // pairs of steps pivoted crosswise
-	qinv := make([]int, n)     // step of each column in the ordering
+	x := make([]float64, n) // dense accumulator, indexed by row of A
+	reach := make([]int, n) // reach[top:] holds the pattern in topological order
+	// Second accumulator and pattern, for the look-ahead of pairPivotSound.
+	x2 := make([]float64, n)
+	reach2 := make([]int, n)
+	w := columnWork{mark: make([]int, n), stack: make([]int, n), cursor: make([]int, n)}
+	offDiag, swapped := 0, 0
+	qinv := make([]int, n) // position of each column in the ordering followed
 	for k, j := range f.q {
 		qinv[j] = k
 	}
+	// The columns are taken from the ordering f.q, except that postponed
+	// columns are queued again (see LU); q records the order of
+	// elimination, which replaces f.q on success.
+	sch := newColumnSchedule(f.q, !f.noDelay)
+	q := make([]int, n)
 
 	for k := 0; k < n; k++ {
-		col := f.q[k]
-		rows := ac.rowIdx[ac.colPtr[col]:ac.colPtr[col+1]]
-		vals := ac.val[ac.colPtr[col]:ac.colPtr[col+1]]
-
-		// Symbolic step: the rows reachable from the pattern of A(:, col)
-		// in the graph of L, in topological order (Gilbert & Peierls,
-		// section 3).
-		top := n
-		for _, r0 := range rows {
-			if mark[r0] == k+1 {
-				continue
-			}
-			mark[r0] = k + 1
-			depth := 0
-			stack[0] = r0
-			cursor[0] = -1
-			for depth >= 0 {
-				i := stack[depth]
-				s := pinv[i]
-				if cursor[depth] < 0 {
-					if s < 0 {
-						// Not yet pivotal: no outgoing edges.
-						depth--
-						top--
-						reach[top] = i
-						continue
-					}
-					cursor[depth] = f.lptr[s]
-				}
-				end := f.lprune[s] // s < k: column s is complete
-				descended := false
-				for c := cursor[depth]; c < end; c++ {
-					j := f.lidx[c]
-					if mark[j] == k+1 {
-						continue
-					}
-					mark[j] = k + 1
-					cursor[depth] = c + 1
-					depth++
-					stack[depth] = j
-					cursor[depth] = -1
-					descended = true
-					break
-				}
-				if !descended {
-					depth--
-					top--
-					reach[top] = i
-				}
-			}
-		}
-
-		// Numeric step: sparse triangular solve L x = A(:, col).
-		for t, r0 := range rows {
-			x[r0] = vals[t]
-		}
-		for _, j := range reach[top:] {
-			s := pinv[j]
-			if s < 0 {
-				continue
-			}
-			xj := x[j]
-			if xj == 0 {
-				continue
-			}
-			lo, hi := f.lptr[s], f.lptr[s+1]
-			idx := f.lidx[lo:hi]
-			val := f.lval[lo:hi]
-			for t, r := range idx {
-				x[r] -= val[t] * xj
-			}
-		}
+		col := sch.take()
+		top := f.solveColumn(&w, ac, col, pinv, x, reach)
 
 		// Pivot choice among the rows not yet pivotal.
 		piv := -1
@@ -382,25 +367,28 @@ func (f *LU) factorScaled(a *CSR, scale []float64) (err error) {
 			}
 			return &SingularError{Column: col, Step: k, Structural: candidates == 0}
 		}
-		// Threshold pivoting: the diagonal entry if it passes the test;
-		// otherwise, of the candidates that pass, the row that comes
-		// earliest in the column ordering, which is the pivot row the
-		// ordering's fill estimate assumed nearest to now. For a pair
-		// (v, c) of the saddle-point ordering whose v fails the test this
-		// is c: the pair is then pivoted as a 2×2 block through its
-		// off-diagonal entries, with no fill outside the pair's own rows.
-		// Any candidate within the threshold keeps the stability bound of
-		// threshold pivoting (entry growth at most 1 + 1/τ per step); the
+		// Threshold pivoting: the diagonal entry if it passes the test.
+		// Otherwise, if the candidate that passes and comes earliest in the
+		// column ordering is the diagonal row of the next column of the
+		// ordering, as for a pair (v, c) of the saddle-point ordering whose
+		// v fails the test, that row, provided column c can then take row
+		// v (pairPivotSound): the pair is pivoted as a 2×2 block through
+		// its off-diagonal entries, with no fill outside the pair's own
+		// rows. Otherwise the column is postponed (delayed
+		// pivots, see LU) and, when it cannot be, takes that earliest
+		// candidate, the pivot row the ordering's fill estimate assumed
+		// nearest to now. Any candidate within the threshold keeps the
+		// stability bound of threshold pivoting (entry growth at most
+		// 1 + 1/τ per step); the
 		// freedom to choose among them is there for sparsity (I. S. Duff,
 		// A. M. Erisman and J. K. Reid, "Direct Methods for Sparse
 		// Matrices", Oxford, 1986, on threshold pivoting, where the
 		// choice is by Markowitz count). Choosing by ordering position
 		// is our own, cheap in a left-looking factorisation where the
 		// Markowitz counts of the active submatrix are not at hand.
-		if pinv[col] < 0 && mark[col] == k+1 && x[col] != 0 && math.Abs(x[col]) >= f.tau*maxAbs {
+		if pinv[col] < 0 && w.mark[col] == w.stamp && x[col] != 0 && math.Abs(x[col]) >= f.tau*maxAbs {
 			piv = col
 		} else {
-			offDiag++
 			lim := f.tau * maxAbs
 			first := n
 			for _, i := range reach[top:] {
@@ -408,9 +396,29 @@ func (f *LU) factorScaled(a *CSR, scale []float64) (err error) {
 					piv, first = i, qinv[i]
 				}
 			}
-			if k+1 < n && piv == f.q[k+1] {
-				swapFrom = k
-			} else if swapFrom == k-1 && piv == f.q[k-1] {
+			if k > 0 && f.p[k-1] == col {
+				// Second column of a 2×2 pair pivot: take the diagonal
+				// row of the first, which pairPivotSound found to pass.
+				if v := q[k-1]; pinv[v] < 0 && x[v] != 0 && math.Abs(x[v]) >= lim {
+					piv = v
+				}
+			}
+			pairNext := piv == sch.peek() && (f.noDelay || f.pairPivotSound(&w, ac, col, piv, pinv, x, reach[top:], x2, reach2))
+			if !pairNext && pinv[col] < 0 && sch.postpone(col, a, ac) {
+				// Retry the column later; it has changed nothing yet.
+				for _, i := range reach[top:] {
+					x[i] = 0
+				}
+				k--
+				continue
+			}
+			offDiag++
+			if pairNext {
+				// First column of a 2×2 pair pivot: the partner column
+				// must come next, before any released column.
+				sch.takeNextFirst()
+			}
+			if k > 0 && piv == q[k-1] && f.p[k-1] == col {
 				swapped++
 			}
 		}
@@ -435,6 +443,8 @@ func (f *LU) factorScaled(a *CSR, scale []float64) (err error) {
 		f.udiag[k] = pivot
 		f.p[k] = piv
 		pinv[piv] = k
+		q[k] = col
+		sch.eliminated(col)
 		f.lprune[k] = f.lptr[k+1]
 
 		// Symmetric pruning (S. C. Eisenstat and J. W. H. Liu, "Exploiting
@@ -474,6 +484,7 @@ func (f *LU) factorScaled(a *CSR, scale []float64) (err error) {
 	for t, i := range f.lidx {
 		f.lidx[t] = pinv[i]
 	}
+	copy(f.q, q)
 	f.stats = LUStats{
 		N:                 n,
 		NNZA:              a.NNZ(),
@@ -481,10 +492,133 @@ func (f *LU) factorScaled(a *CSR, scale []float64) (err error) {
 		NNZU:              len(f.uidx) + n,
 		OffDiagonalPivots: offDiag,
 		SwappedPairs:      swapped,
+		DelayedColumns:    sch.delayedColumns,
+		Delays:            sch.delays,
 		OrderTime:         f.stats.OrderTime,
 		FactorTime:        time.Since(start),
 	}
 	return nil
+}
+
+// pairPivotSound reports whether the 2×2 pivot of a constraint pair
+// passes the threshold test: column v (whose values and pattern at the
+// current step are xv and patV) is to be pivoted on row c, the diagonal row
+// of column c, which comes next; after that step column c must be able to
+// take row v. It solves for column c now, as the next step would (into x2
+// and reach2, which it leaves zero), applies the update of the step on
+// row c, and tests the entry of row v against the other candidates.
+func (f *LU) pairPivotSound(w *columnWork, ac *CSC, v, c int, pinv []int, xv []float64, patV []int, x2 []float64, reach2 []int) bool {
+	top := f.solveColumn(w, ac, c, pinv, x2, reach2)
+	patC := reach2[top:]
+	// After the step, column c holds x2 − xv·(x2[c]/xv[c]) on the rows not
+	// pivotal, row c excepted.
+	m := x2[c] / xv[c]
+	entry := x2[v] - xv[v]*m
+	maxAbs := 0.0
+	for _, i := range patC {
+		if pinv[i] < 0 && i != c {
+			maxAbs = math.Max(maxAbs, math.Abs(x2[i]-xv[i]*m))
+		}
+	}
+	for _, i := range patV {
+		if pinv[i] < 0 && i != c {
+			maxAbs = math.Max(maxAbs, math.Abs(x2[i]-xv[i]*m))
+		}
+	}
+	for _, i := range patC {
+		x2[i] = 0
+	}
+	return entry != 0 && math.Abs(entry) >= f.tau*maxAbs
+}
+
+// columnWork holds the buffers of the sparse triangular solves of one
+// factorisation.
+type columnWork struct {
+	mark   []int // mark[i] == stamp: row i visited by the current solve
+	stack  []int // depth-first search stack of rows
+	cursor []int // next child position per stack level
+	stamp  int
+}
+
+// solveColumn solves L x = A(:, col) with the columns of L computed so far
+// (pinv maps rows to their pivot steps, -1 if not yet pivotal). The
+// pattern of x is left in reach[top:] in topological order and its values
+// in x, which must be zero outside it on entry.
+func (f *LU) solveColumn(w *columnWork, ac *CSC, col int, pinv []int, x []float64, reach []int) (top int) {
+	w.stamp++
+	stamp, mark, stack, cursor := w.stamp, w.mark, w.stack, w.cursor
+	rows := ac.rowIdx[ac.colPtr[col]:ac.colPtr[col+1]]
+	vals := ac.val[ac.colPtr[col]:ac.colPtr[col+1]]
+
+	// Symbolic step: the rows reachable from the pattern of A(:, col)
+	// in the graph of L, in topological order (Gilbert & Peierls,
+	// section 3).
+	top = f.n
+	for _, r0 := range rows {
+		if mark[r0] == stamp {
+			continue
+		}
+		mark[r0] = stamp
+		depth := 0
+		stack[0] = r0
+		cursor[0] = -1
+		for depth >= 0 {
+			i := stack[depth]
+			s := pinv[i]
+			if cursor[depth] < 0 {
+				if s < 0 {
+					// Not yet pivotal: no outgoing edges.
+					depth--
+					top--
+					reach[top] = i
+					continue
+				}
+				cursor[depth] = f.lptr[s]
+			}
+			end := f.lprune[s] // s < k: column s is complete
+			descended := false
+			for c := cursor[depth]; c < end; c++ {
+				j := f.lidx[c]
+				if mark[j] == stamp {
+					continue
+				}
+				mark[j] = stamp
+				cursor[depth] = c + 1
+				depth++
+				stack[depth] = j
+				cursor[depth] = -1
+				descended = true
+				break
+			}
+			if !descended {
+				depth--
+				top--
+				reach[top] = i
+			}
+		}
+	}
+
+	// Numeric step: sparse triangular solve L x = A(:, col).
+	for t, r0 := range rows {
+		x[r0] = vals[t]
+	}
+	for _, j := range reach[top:] {
+		s := pinv[j]
+		if s < 0 {
+			continue
+		}
+		xj := x[j]
+		if xj == 0 {
+			continue
+		}
+		lo, hi := f.lptr[s], f.lptr[s+1]
+		idx := f.lidx[lo:hi]
+		val := f.lval[lo:hi]
+		for t, r := range idx {
+			x[r] -= val[t] * xj
+		}
+	}
+	return top
 }
 
 func resizeInts(s []int, n int) []int {

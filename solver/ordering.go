@@ -138,10 +138,12 @@ func symmetricPattern(a *CSR) (ptr, adj []int, zeroDiag []bool) {
 // (a constraint, such as a pressure in [K Bᵀ; B 0]) is paired with a
 // coupled node of nonzero diagonal, and the pair is ordered as one node,
 // the partner first. Partners are chosen on the equilibrated matrix among
-// the numerically significant couplings, and matched so as to avoid sets
-// of pairs that close a cycle, which would make a discrete divergence
-// block rank deficient (see saddlePairs in saddle_pairs.go). For K positive definite
-// this keeps the leading blocks of the reordered matrix nonsingular and
+// the couplings whose 2×2 pivot would pass the threshold test (the
+// geometric mean of the two entries measures a coupling, so that one-sided
+// couplings of unsymmetric matrices do not count), and matched so as to
+// avoid sets of pairs that close a cycle, which would make a discrete
+// divergence block rank deficient (see saddlePairs in saddle_pairs.go).
+// For K positive definite this keeps the leading blocks of the reordered matrix nonsingular and
 // well conditioned, so the LU can keep to the ordering (taking each pair
 // as a 2×2 pivot where needed, see LUStats.SwappedPairs); without it
 // minimum degree eliminates low-degree constraints first, whose zero
