@@ -77,23 +77,15 @@ func (d *Discretisation) Diagnose(sol *Solution) Diagnostics {
 	for _, tag := range m.Tags() {
 		dg.BoundaryFlux[tag] = make([]float64, n)
 	}
+	trace := make([]float64, d.fe.NQ)
 	for _, be := range d.bnd {
-		af := fem.ElementMap(m, be.t)
-		sgn := 1.0
-		if af.Det < 0 {
-			sgn = -1
-		}
-		fd, fs := d.F.Dofs(be.t), d.F.Signs(be.t)
-		nt := d.fe.Normal[be.local]
 		for i := 0; i < n; i++ {
-			jc := sol.Flux(i)
+			d.edgeNormalFlux(trace, be.t, be.local, sol.Flux(i))
 			var v float64
-			for q := 0; q < d.fe.NQ; q++ {
-				for b := 0; b < nf; b++ {
-					v += d.fe.W[q] * nt[q*nf+b] * fs[b] * jc[fd[b]]
-				}
+			for q, tq := range trace {
+				v += d.fe.W[q] * tq
 			}
-			dg.BoundaryFlux[be.tag][i] += sgn * v
+			dg.BoundaryFlux[be.tag][i] += v
 		}
 	}
 	// The balance is relative to the largest boundary flux of any species,
@@ -116,6 +108,29 @@ func (d *Discretisation) Diagnose(sol *Solution) Diagnostics {
 		dg.Balance = math.Max(dg.Balance, def)
 	}
 	return dg
+}
+
+// edgeNormalFlux writes into dst, at each edge quadrature point q, the
+// outward normal component of the flux field with coefficients coef on the
+// local edge of triangle t, times the edge length (so that sum_q W_q dst[q]
+// is the flux through the edge). The Piola map makes the normal trace of
+// each basis function constant along the physical edge up to this length
+// factor, with the sign of the map's determinant.
+func (d *Discretisation) edgeNormalFlux(dst []float64, t, local int, coef []float64) {
+	nf := d.F.LocalLen()
+	sgn := 1.0
+	if af := fem.ElementMap(d.m, t); af.Det < 0 {
+		sgn = -1
+	}
+	fd, fs := d.F.Dofs(t), d.F.Signs(t)
+	N := d.fe.Normal[local]
+	for q := range dst[:d.fe.NQ] {
+		var v float64
+		for b := 0; b < nf; b++ {
+			v += N[q*nf+b] * fs[b] * coef[fd[b]]
+		}
+		dst[q] = sgn * v
+	}
 }
 
 // MassAverageResidual returns ||v - sum_i J_i/rho||_L2 relative to the

@@ -62,7 +62,53 @@ type outletData struct {
 	mu         []float64
 	rho, total []float64
 	pb         []float64
+	// scratch holds the work arrays of outflowRows, reused across
+	// assemblies.
+	scratch outflowScratch
 }
+
+// outflowScratch is the reusable work space of outflowRows.
+type outflowScratch struct {
+	floats   scratchFloats
+	piv      []int
+	rows     [][]float64
+	replaced []replacedRow
+	sign     [1]float64
+	rhs      [1]float64
+	idx      [1]int
+}
+
+// replacedRow is a flux row of an outflow edge that replaces the row of
+// the species' basis function a.
+type replacedRow struct {
+	species, a int
+	row        []float64
+	rhs        float64
+}
+
+// scratchFloats hands out zeroed slices from a buffer that is reset, not
+// freed, between uses; once it has grown to the largest demand it
+// allocates nothing.
+type scratchFloats struct {
+	buf  []float64
+	used int
+}
+
+// take returns a zeroed slice of length k.
+func (s *scratchFloats) take(k int) []float64 {
+	if s.used+k > len(s.buf) {
+		// A larger buffer; slices handed out earlier keep the old one.
+		s.buf = make([]float64, max(2*len(s.buf), 2*k, 256))
+		s.used = 0
+	}
+	r := s.buf[s.used : s.used+k : s.used+k]
+	clear(r)
+	s.used += k
+	return r
+}
+
+// reset makes the whole buffer available again.
+func (s *scratchFloats) reset() { s.used = 0 }
 
 // collectOutflow lists the outflow edges and the flux dofs on each.
 func (d *Discretisation) collectOutflow() error {
@@ -140,12 +186,10 @@ func (d *Discretisation) outflowRows(t int, af *fem.Affine) error {
 	off := d.lay.Offset
 	vd, pd, fd, ud := d.V.Dofs(t), d.P.Dofs(t), d.F.Dofs(t), d.U.Dofs(t)
 	fs := d.F.Signs(t)
-	type replaced struct {
-		species, a int
-		row        []float64
-		rhs        float64
-	}
-	var out []replaced
+	ws := &d.out.scratch
+	ws.floats.reset()
+	take := ws.floats.take
+	out := ws.replaced[:0]
 	for _, o := range d.outflowOf[t] {
 		oe := d.outflow[o]
 		le, nl := oe.local, len(oe.dofs)
@@ -153,12 +197,12 @@ func (d *Discretisation) outflowRows(t int, af *fem.Affine) error {
 		chi := d.ue.Value[le]
 		// The original rows of every species on this edge, with the
 		// boundary potential term of the total-flux datum added.
-		rows := make([][]float64, n*nl)
-		rhs := make([]float64, n*nl)
+		rows := ws.rows[:0]
+		rhs := take(n * nl)
 		for i := 0; i < n; i++ {
 			invM := 1 / p.Mixture.mass[i]
 			for l, a := range oe.dofs {
-				r := make([]float64, L)
+				r := take(L)
 				for c := 0; c < 2; c++ {
 					copy(r[c*nv:(c+1)*nv], w.jv[c][a*nv:(a+1)*nv])
 				}
@@ -196,13 +240,14 @@ func (d *Discretisation) outflowRows(t int, af *fem.Affine) error {
 					}
 					b += f * (S*d.out.pb[pq]/d.out.rho[pq] - d.out.cb[pq*n+i]*invM)
 				}
-				rows[i*nl+l] = r
+				rows = append(rows, r) // index i*nl+l
 				rhs[i*nl+l] = b
 			}
 		}
 		// Edge mass matrices E and W_i of the normal traces.
-		E := make([]float64, nl*nl)
-		Wi := make([]float64, n*nl*nl)
+		ws.rows = rows
+		E := take(nl * nl)
+		Wi := take(n * nl * nl)
 		heavy, best := 0, -1.0
 		for i := 0; i < n; i++ {
 			var mean float64
@@ -225,13 +270,17 @@ func (d *Discretisation) outflowRows(t int, af *fem.Affine) error {
 			}
 		}
 		// P_i = E^-1 W_i.
-		Elu := append([]float64(nil), E...)
-		piv := make([]int, nl)
+		Elu := take(nl * nl)
+		copy(Elu, E)
+		if cap(ws.piv) < nl {
+			ws.piv = make([]int, nl)
+		}
+		piv := ws.piv[:nl]
 		if !luFactor(Elu, nl, piv) {
 			return fmt.Errorf("physics: outflow edge %d: singular edge mass matrix", oe.edge)
 		}
-		P := make([]float64, n*nl*nl)
-		col := make([]float64, nl)
+		P := take(n * nl * nl)
+		col := take(nl)
 		for i := 0; i < n; i++ {
 			for l := 0; l < nl; l++ {
 				for m := 0; m < nl; m++ {
@@ -245,7 +294,7 @@ func (d *Discretisation) outflowRows(t int, af *fem.Affine) error {
 		}
 		for m, am := range oe.dofs {
 			// The total-flux row: sum_i sum_l P_i[l][m] row_i^l.
-			tr := make([]float64, L)
+			tr := take(L)
 			var tb float64
 			for i := 0; i < n; i++ {
 				for l := 0; l < nl; l++ {
@@ -259,14 +308,14 @@ func (d *Discretisation) outflowRows(t int, af *fem.Affine) error {
 					tb += c * rhs[i*nl+l]
 				}
 			}
-			out = append(out, replaced{species: heavy, a: am, row: tr, rhs: tb})
+			out = append(out, replacedRow{species: heavy, a: am, row: tr, rhs: tb})
 			// The zero-diffusive-flux conditions of the other species.
 			diag := E[m*nl+m]
 			for i := 0; i < n; i++ {
 				if i == heavy {
 					continue
 				}
-				r := make([]float64, L)
+				r := take(L)
 				var b float64
 				for l, al := range oe.dofs {
 					r[colJ(i)+al] += E[m*nl+l] / diag
@@ -288,7 +337,7 @@ func (d *Discretisation) outflowRows(t int, af *fem.Affine) error {
 						b += g * d.out.mu[pq*n+k]
 					}
 				}
-				out = append(out, replaced{species: i, a: am, row: r, rhs: b})
+				out = append(out, replacedRow{species: i, a: am, row: r, rhs: b})
 			}
 		}
 		// Clear the original rows; the shared blocks (velocity, pressure
@@ -311,8 +360,8 @@ func (d *Discretisation) outflowRows(t int, af *fem.Affine) error {
 			}
 		}
 	}
-	sign := make([]float64, 1)
-	idx := make([]int, 1)
+	ws.replaced = out
+	sign, idx, one := ws.sign[:], ws.idx[:], ws.rhs[:]
 	for _, r := range out {
 		idx[0] = fd[r.a]
 		sign[0] = fs[r.a]
@@ -325,7 +374,8 @@ func (d *Discretisation) outflowRows(t int, af *fem.Affine) error {
 			d.sys.AddMatrix(row, idx, sign, off(blockJ0+j), fd, fs, r.row[colJ(j):colJ(j)+nf])
 			d.sys.AddMatrix(row, idx, sign, off(blockJ0+n+j), ud, nil, r.row[colU(j):colU(j)+nm])
 		}
-		d.sys.AddVector(row, idx, sign, []float64{r.rhs})
+		one[0] = r.rhs
+		d.sys.AddVector(row, idx, sign, one)
 	}
 	return nil
 }
@@ -333,24 +383,16 @@ func (d *Discretisation) outflowRows(t int, af *fem.Affine) error {
 // outletTotals writes the total outward normal mass flux sum_i J_i.n of sol
 // at every outflow edge quadrature point (index o*nq+q) into dst.
 func (d *Discretisation) outletTotals(dst []float64, sol *Solution) {
-	nq, nf := d.fe.NQ, d.F.LocalLen()
+	nq := d.fe.NQ
+	trace := make([]float64, nq)
 	for o, oe := range d.outflow {
-		af := fem.ElementMap(d.m, oe.t)
-		sgn := 1.0
-		if af.Det < 0 {
-			sgn = -1
-		}
-		fd, fs := d.F.Dofs(oe.t), d.F.Signs(oe.t)
-		N := d.fe.Normal[oe.local]
-		for q := 0; q < nq; q++ {
-			var tot float64
-			for i := 0; i < d.n; i++ {
-				jc := sol.Flux(i)
-				for _, a := range oe.dofs {
-					tot += fs[a] * jc[fd[a]] * N[q*nf+a]
-				}
+		tot := dst[o*nq : (o+1)*nq]
+		clear(tot)
+		for i := 0; i < d.n; i++ {
+			d.edgeNormalFlux(trace, oe.t, oe.local, sol.Flux(i))
+			for q, v := range trace {
+				tot[q] += v / oe.length
 			}
-			dst[o*nq+q] = sgn * tot / oe.length
 		}
 	}
 }

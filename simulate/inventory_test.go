@@ -4,7 +4,6 @@ import (
 	"math"
 	"testing"
 
-	"mixwell/casefile"
 	"mixwell/fem"
 	"mixwell/physics"
 )
@@ -47,18 +46,7 @@ func TestInventoryFixesTheAmounts(t *testing.T) {
 	// c_T = P/(R T) times the area (the inventory of section 6), to 1e-8
 	// relative, although A is far from uniform.
 	const tol = 1e-8
-	c, err := casefile.Parse("box.yaml", []byte(closedBox))
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := Prepare(c)
-	if err != nil {
-		t.Fatal(err)
-	}
-	o, err := s.Solve(nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	s, o := solved(t, "box.yaml", closedBox)
 	rule, err := fem.NewTriangleRule(10)
 	if err != nil {
 		t.Fatal(err)

@@ -2,7 +2,6 @@ package simulate
 
 import (
 	"math"
-	"os"
 	"strings"
 	"testing"
 
@@ -24,24 +23,9 @@ func TestBinaryEvaporationClosedForm(t *testing.T) {
 
 func binaryEvaporation(t *testing.T, surface string) {
 	const tol = 1e-3
-	data := mustRead(t, "../testdata/cases/binary-evaporation.yaml")
-	from := "  surface:\n    velocity: open\n"
-	if !strings.Contains(data, from) {
-		t.Fatal("surface condition not found in the case")
-	}
-	data = strings.Replace(data, from, "  surface:\n    velocity: "+surface+"\n", 1)
-	c, err := casefile.Parse("../testdata/cases/binary-evaporation.yaml", []byte(data))
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := Prepare(c)
-	if err != nil {
-		t.Fatal(err)
-	}
-	o, err := s.Solve(nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	const path = "../testdata/cases/binary-evaporation.yaml"
+	data := editedCase(t, path, [2]string{"  surface:\n    velocity: open\n", "  surface:\n    velocity: " + surface + "\n"})
+	_, o := solved(t, path, data)
 	const (
 		P, T, D, L, W = 100e3, 300.0, 1e-5, 0.1, 2e-3
 		x0, xL        = 0.6, 0.1
@@ -68,11 +52,8 @@ func TestPrepareRejectsUnsupportedData(t *testing.T) {
 		{"no composition for a species", "    species: {type: composition, mole_fractions: {A: 0.1, B: 0.9}}", "    species: impermeable", "species \"B\" has no composition boundary"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			data := mustRead(t, "../testdata/cases/binary-evaporation.yaml")
-			if !strings.Contains(data, tc.from) {
-				t.Fatalf("test case text not found")
-			}
-			c, err := casefile.Parse("case.yaml", []byte(strings.Replace(data, tc.from, tc.to, 1)))
+			data := editedCase(t, "../testdata/cases/binary-evaporation.yaml", [2]string{tc.from, tc.to})
+			c, err := casefile.Parse("case.yaml", []byte(data))
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -82,15 +63,6 @@ func TestPrepareRejectsUnsupportedData(t *testing.T) {
 			}
 		})
 	}
-}
-
-func mustRead(t *testing.T, path string) string {
-	t.Helper()
-	b, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return string(b)
 }
 
 func TestPlanePoiseuilleExact(t *testing.T) {
@@ -121,30 +93,14 @@ func TestPlanePoiseuilleExact(t *testing.T) {
 
 func poiseuille(t *testing.T, from, to string) {
 	const tol = 1e-6
-	data := mustRead(t, "../testdata/cases/poiseuille.yaml")
+	const path = "../testdata/cases/poiseuille.yaml"
+	var edits [][2]string
 	if from != "" {
-		if !strings.Contains(data, from) {
-			t.Fatal("inlet condition not found in the case")
-		}
-		data = strings.Replace(data, from, to, 1)
-		tail := "    velocity: {type: open, pressure: 0 Pa}\n    species: {type: composition, mole_fractions: {A: 0.2, B: 0.5, C: 0.3}}"
-		if !strings.Contains(data, tail) {
-			t.Fatal("outlet condition not found in the case")
-		}
-		data = strings.Replace(data, tail, "    velocity: {type: open, pressure: 0 Pa}\n    species: outflow", 1)
+		edits = [][2]string{{from, to}, {
+			"    velocity: {type: open, pressure: 0 Pa}\n    species: {type: composition, mole_fractions: {A: 0.2, B: 0.5, C: 0.3}}",
+			"    velocity: {type: open, pressure: 0 Pa}\n    species: outflow"}}
 	}
-	c, err := casefile.Parse("../testdata/cases/poiseuille.yaml", []byte(data))
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := Prepare(c)
-	if err != nil {
-		t.Fatal(err)
-	}
-	o, err := s.Solve(nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, o := solved(t, path, editedCase(t, path, edits...))
 	const (
 		U, H, L, eta = 0.01, 1e-3, 4e-3, 1.8e-5
 	)
@@ -180,26 +136,12 @@ func TestOutflowBackflowWarning(t *testing.T) {
 	// reversed (the mixture leaves through the "inlet" and enters through
 	// the outflow boundary): the outcome must carry a warning naming the
 	// boundary, whether or not the iteration converges.
-	data := mustRead(t, "../testdata/cases/poiseuille.yaml")
-	for _, r := range [][2]string{
-		{"velocity: {type: inflow, profile: parabolic, mean_speed: 1 cm/s}\n    species: {type: composition,", "velocity: {type: inflow, vector: [-1 cm/s, 0]}\n    species: {type: convective-inflow,"},
-		{"    velocity: {type: open, pressure: 0 Pa}\n    species: {type: composition, mole_fractions: {A: 0.2, B: 0.5, C: 0.3}}", "    velocity: {type: open, pressure: 0 Pa}\n    species: outflow"},
-	} {
-		if !strings.Contains(data, r[0]) {
-			t.Fatalf("text %q not found in the case", r[0])
-		}
-		data = strings.Replace(data, r[0], r[1], 1)
-	}
+	const path = "../testdata/cases/poiseuille.yaml"
+	data := editedCase(t, path,
+		[2]string{"velocity: {type: inflow, profile: parabolic, mean_speed: 1 cm/s}\n    species: {type: composition,", "velocity: {type: inflow, vector: [-1 cm/s, 0]}\n    species: {type: convective-inflow,"},
+		[2]string{"    velocity: {type: open, pressure: 0 Pa}\n    species: {type: composition, mole_fractions: {A: 0.2, B: 0.5, C: 0.3}}", "    velocity: {type: open, pressure: 0 Pa}\n    species: outflow"})
 	data += "solver: {max_iterations: 3}\n"
-	c, err := casefile.Parse("../testdata/cases/poiseuille.yaml", []byte(data))
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := Prepare(c)
-	if err != nil {
-		t.Fatal(err)
-	}
-	o, _ := s.Solve(nil)
+	o, _ := prepared(t, path, data).Solve(nil)
 	if o == nil {
 		t.Fatal("no outcome")
 	}
@@ -221,24 +163,9 @@ func TestOpenBoundaryUnderGravity(t *testing.T) {
 	// gave a mass-average defect of 1.4e-2, the hydrostatic one 4.2e-8.
 	// This test (compositions at both ends): velocity error and defect
 	// 9.5e-8, the pressure-diffusion level. Tolerance 1e-6 on both.
-	data := mustRead(t, "../testdata/cases/poiseuille.yaml")
+	const path = "../testdata/cases/poiseuille.yaml"
 	from := "viscosity: 1.8e-5 Pa s\n"
-	if !strings.Contains(data, from) {
-		t.Fatal("viscosity line not found in the case")
-	}
-	data = strings.Replace(data, from, from+"gravity: [0, -9.81 m/s^2]\n", 1)
-	c, err := casefile.Parse("../testdata/cases/poiseuille.yaml", []byte(data))
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := Prepare(c)
-	if err != nil {
-		t.Fatal(err)
-	}
-	o, err := s.Solve(nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, o := solved(t, path, editedCase(t, path, [2]string{from, from + "gravity: [0, -9.81 m/s^2]\n"}))
 	const U, H = 0.01, 1e-3
 	pt := o.NewPoint()
 	var worstV float64

@@ -2,12 +2,10 @@ package simulate
 
 import (
 	"math"
-	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
 
-	"mixwell/casefile"
 	"mixwell/physics"
 )
 
@@ -85,21 +83,9 @@ func TestStefanTube2D(t *testing.T) {
 	if testing.Short() {
 		t.Skip("short mode")
 	}
-	data := mustRead(t, "../testdata/cases/stefan-tube.yaml")
-	data = strings.Replace(data, "  degree: 2\n", "  degree: "+stefanDegree+"\n", 1)
-	cs, err := casefile.Parse("../testdata/cases/stefan-tube.yaml", []byte(data))
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := Prepare(cs)
-	if err != nil {
-		t.Fatal(err)
-	}
+	const path = "../testdata/cases/stefan-tube.yaml"
+	s, o := solved(t, path, editedCase(t, path, [2]string{"  degree: 2\n", "  degree: " + stefanDegree + "\n"}))
 	t.Logf("%d unknowns", s.Unknowns())
-	o, err := s.Solve(nil)
-	if err != nil {
-		t.Fatal(err)
-	}
 	const w = 2e-3
 	got := [2]float64{o.BoundaryFlux["mouth"][0].Molar / w, o.BoundaryFlux["mouth"][1].Molar / w}
 	xmouth, err := s.floorComposition([]float64{0, 0, 1})
@@ -142,21 +128,10 @@ func TestEquationOfStateNormalisation(t *testing.T) {
 	errs := map[string]float64{}
 	its := map[string]int{}
 	for _, model := range []string{"ideal-gas-at-pressure", "ideal-gas"} {
-		data := mustRead(t, "../testdata/cases/stefan-tube.yaml")
-		data = strings.Replace(data, "  degree: 2\n", "  degree: 1\n", 1)
-		data = strings.Replace(data, "thermodynamics: ideal-gas-at-pressure\n", "thermodynamics: "+model+"\n", 1)
-		cs, err := casefile.Parse("../testdata/cases/stefan-tube.yaml", []byte(data))
-		if err != nil {
-			t.Fatal(err)
-		}
-		s, err := Prepare(cs)
-		if err != nil {
-			t.Fatal(err)
-		}
-		o, err := s.Solve(nil)
-		if err != nil {
-			t.Fatalf("%s: %v", model, err)
-		}
+		const path = "../testdata/cases/stefan-tube.yaml"
+		s, o := solved(t, path, editedCase(t, path,
+			[2]string{"  degree: 2\n", "  degree: 1\n"},
+			[2]string{"thermodynamics: ideal-gas-at-pressure\n", "thermodynamics: " + model + "\n"}))
 		const w = 2e-3
 		xmouth, err := s.floorComposition([]float64{0, 0, 1})
 		if err != nil {

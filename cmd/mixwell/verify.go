@@ -202,17 +202,14 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 	if o.levels < 2 {
 		return cfg, fmt.Errorf("--levels must be at least 2 to observe a rate, got %d", o.levels)
 	}
-	if o.coarse < 0 {
-		return cfg, fmt.Errorf("--coarse must be positive (or 0 for the default), got %d", o.coarse)
+	if err := o.checkCoarseAndFormat(); err != nil {
+		return cfg, err
 	}
-	if !slices.Contains(meshChoices, o.mesh) {
-		return cfg, fmt.Errorf("unknown --mesh %q (valid: %s)", o.mesh, strings.Join(meshChoices, ", "))
+	if err := checkChoice("mesh", o.mesh, meshChoices); err != nil {
+		return cfg, err
 	}
 	if flags.Changed("seed") && o.mesh != "perturbed" {
 		return cfg, errors.New("--seed applies only to --mesh perturbed")
-	}
-	if !slices.Contains(formatChoices, o.format) {
-		return cfg, fmt.Errorf("unknown --format %q (valid: %s)", o.format, strings.Join(formatChoices, ", "))
 	}
 	if flags.Changed("plot") {
 		if _, err := verification.PlotFormat(o.plot); err != nil {
@@ -229,14 +226,11 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 		if o.species < 2 || o.species > 6 {
 			return cfg, fmt.Errorf("--species must be 2 to 6, got %d", o.species)
 		}
-		if !slices.Contains(flavourChoices, o.flavour) {
-			return cfg, fmt.Errorf("unknown --flavour %q (valid: %s)", o.flavour, strings.Join(flavourChoices, ", "))
+		if err := checkChoice("flavour", o.flavour, flavourChoices); err != nil {
+			return cfg, err
 		}
-		if !slices.Contains(methodChoices, o.method) {
-			return cfg, fmt.Errorf("unknown --method %q (valid: %s)", o.method, strings.Join(methodChoices, ", "))
-		}
-		if o.maxIter < 1 {
-			return cfg, fmt.Errorf("--max-iterations must be positive, got %d", o.maxIter)
+		if err := o.checkIteration(); err != nil {
+			return cfg, err
 		}
 		if o.groupS < 0 || math.IsNaN(o.groupS) || math.IsInf(o.groupS, 0) {
 			return cfg, fmt.Errorf("--group-s must be positive and finite (or 0 for the default), got %g", o.groupS)
@@ -469,4 +463,32 @@ func joinInts(v []int) string {
 		s[i] = strconv.Itoa(k)
 	}
 	return strings.Join(s, ", ")
+}
+
+// checkChoice reports an error naming the flag and the valid values when
+// value is not one of choices.
+func checkChoice(flag, value string, choices []string) error {
+	if !slices.Contains(choices, value) {
+		return fmt.Errorf("unknown --%s %q (valid: %s)", flag, value, strings.Join(choices, ", "))
+	}
+	return nil
+}
+
+// checkCoarseAndFormat checks the flags every verify problem shares.
+func (o *verifyOptions) checkCoarseAndFormat() error {
+	if o.coarse < 0 {
+		return fmt.Errorf("--coarse must be positive (or 0 for the default), got %d", o.coarse)
+	}
+	return checkChoice("format", o.format, formatChoices)
+}
+
+// checkIteration checks the nonlinear iteration flags.
+func (o *verifyOptions) checkIteration() error {
+	if err := checkChoice("method", o.method, methodChoices); err != nil {
+		return err
+	}
+	if o.maxIter < 1 {
+		return fmt.Errorf("--max-iterations must be positive, got %d", o.maxIter)
+	}
+	return nil
 }

@@ -3,8 +3,6 @@ package main
 import (
 	"encoding/json"
 	"fmt"
-	"slices"
-	"strings"
 	"text/tabwriter"
 	"time"
 
@@ -35,17 +33,11 @@ func (o *verifyOptions) channelConfig(cmd *cobra.Command) (verification.Config, 
 	if o.levels < 2 {
 		return cfg, fmt.Errorf("--levels must be at least 2 to compare levels, got %d", o.levels)
 	}
-	if o.coarse < 0 {
-		return cfg, fmt.Errorf("--coarse must be positive (or 0 for the default), got %d", o.coarse)
+	if err := o.checkCoarseAndFormat(); err != nil {
+		return cfg, err
 	}
-	if !slices.Contains(methodChoices, o.method) {
-		return cfg, fmt.Errorf("unknown --method %q (valid: %s)", o.method, strings.Join(methodChoices, ", "))
-	}
-	if o.maxIter < 1 {
-		return cfg, fmt.Errorf("--max-iterations must be positive, got %d", o.maxIter)
-	}
-	if !slices.Contains(formatChoices, o.format) {
-		return cfg, fmt.Errorf("unknown --format %q (valid: %s)", o.format, strings.Join(formatChoices, ", "))
+	if err := o.checkIteration(); err != nil {
+		return cfg, err
 	}
 	maxIt := o.maxIter
 	if !flags.Changed("max-iterations") {
