@@ -151,8 +151,10 @@ type FixedPointRecord struct {
 	// Evaluations is the cumulative number of evaluations of G, including
 	// the one at the initial guess.
 	Evaluations int
-	// Restarted reports that the Anderson history was cleared after this
-	// iteration because the residual grew (FixedPointSettings.RestartGrowth).
+	// Restarted reports that the Anderson history was cleared in this
+	// iteration: because the residual grew (FixedPointSettings.RestartGrowth),
+	// or because the map failed at the extrapolated point, in which case
+	// the iteration took the plain step x + β (G(x) − x) instead.
 	Restarted bool
 	// Depth is the number of history columns the Anderson step used (zero
 	// for Picard and Newton–Krylov, and for the first Anderson step and the
@@ -598,8 +600,23 @@ func (r *fixedPointRun) anderson(x0 []float64) error {
 				xNew[i] = x[i] + beta*f[i]
 			}
 		}
+		fallback := false
 		if err := r.eval(gNew, xNew); err != nil {
-			return r.failure(err)
+			if depth == 0 {
+				return r.failure(err)
+			}
+			// The extrapolated point lies outside the map's domain (a
+			// state the model cannot represent, say) or makes it return
+			// NaN: clear the history and take the plain step from x,
+			// whose result G(x) the map has produced itself.
+			hist.clear()
+			depth, fallback = 0, true
+			for i := range xNew {
+				xNew[i] = x[i] + beta*f[i]
+			}
+			if err := r.eval(gNew, xNew); err != nil {
+				return r.failure(err)
+			}
 		}
 		for i := range fNew {
 			fNew[i] = gNew[i] - xNew[i]
@@ -618,7 +635,11 @@ func (r *fixedPointRun) anderson(x0 []float64) error {
 			return r.stop(true, false, "non-finite norm of the iterate or residual")
 		}
 		converged := rec.Residual <= cfg.tol
-		if !converged && hist != nil && fAbs > cfg.restartGrowth*reference {
+		if fallback {
+			rec.Restarted = true
+			reference = fAbs
+			hist.push(d, fNew, f)
+		} else if !converged && hist != nil && fAbs > cfg.restartGrowth*reference {
 			rec.Restarted = true
 			hist.clear()
 			reference = fAbs

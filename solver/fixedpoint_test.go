@@ -502,18 +502,26 @@ func TestSolveFixedPointErrors(t *testing.T) {
 
 	t.Run("map error", func(t *testing.T) {
 		for _, m := range methods {
+			// The map fails from its third evaluation on. Anderson's
+			// third evaluation is its first extrapolated point, after
+			// which it retries the plain step: the error comes from the
+			// fourth.
 			calls := 0
 			g := func(dst, x []float64) error {
 				calls++
-				if calls == 3 {
+				if calls >= 3 {
 					return errMap
 				}
 				return bf.g(dst, x)
 			}
+			want := 3
+			if m == Anderson {
+				want = 4
+			}
 			res, err := SolveFixedPoint(g, bf.x0, &FixedPointSettings{Method: m})
 			var me *MapError
-			if !errors.Is(err, errMap) || !errors.As(err, &me) || me.Evaluation != 3 || me.Method != m.String() || me.Iteration < 1 {
-				t.Errorf("%v: error %v, want a MapError for evaluation 3 wrapping the map's error", m, err)
+			if !errors.Is(err, errMap) || !errors.As(err, &me) || me.Evaluation != want || me.Method != m.String() || me.Iteration < 1 {
+				t.Errorf("%v: error %v, want a MapError for evaluation %d wrapping the map's error", m, err, want)
 			}
 			if res == nil || res.X == nil {
 				t.Errorf("%v: no result returned with the error", m)
@@ -662,4 +670,42 @@ func TestFixedPointAllocations(t *testing.T) {
 			t.Errorf("%v: %g allocations for 5 iterations, %g for 60", m, few, many)
 		}
 	}
+}
+
+func TestAndersonFallsBackWhenExtrapolationLeavesTheDomain(t *testing.T) {
+	// A map defined only at the initial guess and at its own outputs (as a
+	// model that cannot represent an arbitrary state): every extrapolated
+	// Anderson point fails, and the iteration must fall back to the plain
+	// step and converge like Picard iteration, G(x) = x/2 + (1, 2, 3),
+	// fixed point (2, 4, 6), contraction 1/2: about 35 steps to 1e-10.
+	own := map[[3]float64]bool{{0, 0, 0}: true}
+	g := func(dst, x []float64) error {
+		if !own[[3]float64(x)] {
+			return errors.New("state outside the model's range")
+		}
+		for i := range dst {
+			dst[i] = x[i]/2 + float64(i+1)
+		}
+		own[[3]float64(dst)] = true
+		return nil
+	}
+	res, err := SolveFixedPoint(g, []float64{0, 0, 0}, &FixedPointSettings{Method: Anderson, Depth: 5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, want := range []float64{2, 4, 6} {
+		if math.Abs(res.X[i]-want) > 1e-8 {
+			t.Errorf("x[%d] = %.12g, want %g", i, res.X[i], want)
+		}
+	}
+	var fallbacks int
+	for _, rec := range res.History {
+		if rec.Restarted {
+			fallbacks++
+		}
+	}
+	if fallbacks == 0 || res.Iterations > 40 {
+		t.Errorf("%d iterations, %d fallbacks: want convergence like Picard (about 35) with fallbacks", res.Iterations, fallbacks)
+	}
+	t.Logf("%d iterations, %d evaluations, %d fallbacks", res.Iterations, res.Evaluations, fallbacks)
 }
