@@ -86,10 +86,10 @@ func runChannel(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.C
 func writeChannelTable(w interface{ Write([]byte) (int, error) }, st *verification.ChannelStudy) {
 	fmt.Fprintf(w, "channel benchmark, degree %d, Peclet number %.3g, S = %.3g\n", st.Degree, st.Peclet, st.S)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "rows\tunknowns\titerations\tconverged\tpatch flux A (mol/(s m))\toutlet x_A\tmass average\tseconds\t")
+	fmt.Fprintln(tw, "rows\tunknowns\titerations\tconverged\tpatch flux A (mol/(s m))\toutlet x_A\tmass average\tEOS defect\tseconds\t")
 	for l := range st.Rows {
-		fmt.Fprintf(tw, "%d\t%d\t%d\t%v\t%.8e\t%.6f\t%.3e\t%.1f\t\n", st.Rows[l], st.Unknowns[l], st.Iterations[l], st.Converged[l],
-			st.PatchFlux[l], st.OutletA[l], st.MassAverageLevels[l], st.Seconds[l])
+		fmt.Fprintf(tw, "%d\t%d\t%d\t%v\t%.8e\t%.6f\t%.3e\t%.3e\t%.1f\t\n", st.Rows[l], st.Unknowns[l], st.Iterations[l], st.Converged[l],
+			st.PatchFlux[l], st.OutletA[l], st.MassAverageLevels[l], st.EOSDefect[l], st.Seconds[l])
 	}
 	tw.Flush()
 	fmt.Fprintf(w, "balance %.3e, mass_average %.3e, truncation %.3e, patch flux change %.3e\n",

@@ -146,6 +146,18 @@ func TestVerifyRejectsMisuse(t *testing.T) {
 			[]string{"--seed applies only to --mesh perturbed"}},
 		{"plot as pdf", []string{"--problem", "poisson", "--degree", "1", "--plot", "conv.pdf"},
 			[]string{"conv.pdf", ".png or .svg"}},
+		{"flux with channel", []string{"--problem", "channel", "--degree", "1", "--flux", "rt"},
+			[]string{"--flux does not apply to --problem channel"}},
+		{"channel without degree", []string{"--problem", "channel"},
+			[]string{"missing --degree", "1, 2, 3"}},
+		{"channel degree 5", []string{"--problem", "channel", "--degree", "5"},
+			[]string{"no degree 5"}},
+		{"channel one level", []string{"--problem", "channel", "--degree", "1", "--levels", "1"},
+			[]string{"--levels must be at least 2"}},
+		{"channel bad method", []string{"--problem", "channel", "--degree", "1", "--method", "gauss"},
+			[]string{`--method "gauss"`, "anderson, picard, newton-krylov"}},
+		{"channel bad format", []string{"--problem", "channel", "--degree", "1", "--format", "xml"},
+			[]string{`--format "xml"`, "table, json"}},
 		{"positional argument", []string{"poisson"},
 			[]string{`unknown command "poisson"`}},
 		{"unknown flag", []string{"--problme", "poisson"},
@@ -381,5 +393,26 @@ func TestVerifyPoissonJSON(t *testing.T) {
 		if _, ok := s.Expected[norm]; !ok {
 			t.Errorf("expected lacks norm %s", norm)
 		}
+	}
+}
+
+func TestWriteChannelTable(t *testing.T) {
+	// The table prints one row per level and the study's summary line
+	// with the values given (made-up numbers: only the layout is tested).
+	st := &verification.ChannelStudy{Degree: 1, Peclet: 6.25, S: 2.2e-8,
+		Rows: []int{4, 8}, Unknowns: []int{100, 400}, Iterations: []int{40, 41}, Converged: []bool{true, false},
+		PatchFlux: []float64{8.5e-4, 8.6e-4}, OutletA: []float64{0.25, 0.26}, MassAverageLevels: []float64{4e-3, 2e-3},
+		EOSDefect: []float64{3e-2, 1e-2}, Seconds: []float64{1, 2},
+		Balance: 1e-15, MassAverage: 2e-3, Truncation: 1.5e-3, PatchFluxChange: 1.2e-2}
+	var b bytes.Buffer
+	writeChannelTable(&b, st)
+	out := b.String()
+	for _, want := range []string{"Peclet number 6.25", "EOS defect", "1.000e-02", "false", "truncation 1.500e-03", "patch flux change 1.200e-02"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("table lacks %q:\n%s", want, out)
+		}
+	}
+	if n := strings.Count(out, "\n"); n != 5 {
+		t.Errorf("table has %d lines, want 5 (title, header, 2 levels, summary):\n%s", n, out)
 	}
 }
