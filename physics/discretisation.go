@@ -990,7 +990,7 @@ func (d *Discretisation) solveLinear(A *solver.CSR, b []float64) ([]float64, flo
 	}
 	if err != nil {
 		d.lu = nil
-		return nil, 0, fmt.Errorf("physics: factorising the SOSM system (%d unknowns): %w", A.NNZ(), err)
+		return nil, 0, fmt.Errorf("physics: factorising the SOSM system (%d unknowns, %d non-zeros): %w", len(b), A.NNZ(), err)
 	}
 	x := make([]float64, len(b))
 	res, err := d.lu.SolveRefinedTo(x, A, b, 2)
