@@ -472,3 +472,50 @@ func TestLoadMissingFile(t *testing.T) {
 		t.Errorf("got %v", err)
 	}
 }
+
+func TestParseWarnsAboutClosuresInFlowThrough(t *testing.T) {
+	// docs/outflow.md: with an outflow boundary, ideal-gas lets the total
+	// concentration drift and ideal-gas-at-pressure moves the mole
+	// fractions that a composition with impermeable species imposes.
+	outflow := [2]string{"    species:\n      type: composition\n      mole_fractions: {A: 0.1, B: 0.1, C: 0.8}", "    species: outflow"}
+	partial := [2]string{"      mole_fractions: {A: 0.5, B: 0.3, C: 0.2}", "      mole_fractions: {A: 0.5, B: 0.3, C: 0.2}\n      impermeable: [B, C]"}
+	normalised := [2]string{"thermodynamics: ideal-gas\n", "thermodynamics: ideal-gas-at-pressure\n"}
+	for _, tc := range []struct {
+		name  string
+		edits [][2]string
+		at    string // text at the warning's line ("" for no warning)
+		path  string
+		msg   string
+	}{
+		{"ideal gas with outflow", [][2]string{outflow}, "    species: outflow", "boundaries.top.species", "total concentration can drift"},
+		{"ideal gas with outflow and partial composition", [][2]string{outflow, partial}, "    species: outflow", "boundaries.top.species", "total concentration can drift"},
+		{"normalised with outflow and partial composition", [][2]string{outflow, partial, normalised}, "      type: composition\n      mole_fractions: {A: 0.5", "boundaries.bottom.species", "imposes only the potentials"},
+		{"normalised with outflow, full composition", [][2]string{outflow, normalised}, "", "", ""},
+		{"ideal gas, partial composition, no outflow", [][2]string{partial}, "", "", ""},
+	} {
+		text := baseCase
+		for _, e := range tc.edits {
+			if !strings.Contains(text, e[0]) {
+				t.Fatalf("%s: edit target %q not found", tc.name, e[0])
+			}
+			text = strings.Replace(text, e[0], e[1], 1)
+		}
+		c, err := casefile.Parse("case.yaml", []byte(text))
+		if err != nil {
+			t.Fatalf("%s: %v", tc.name, err)
+		}
+		if tc.at == "" {
+			if len(c.Warnings) != 0 {
+				t.Errorf("%s: warnings %v, want none", tc.name, c.Warnings)
+			}
+			continue
+		}
+		line, _ := lineCol(text, tc.at)
+		if len(c.Warnings) != 1 {
+			t.Fatalf("%s: got %d warnings %v, want 1", tc.name, len(c.Warnings), c.Warnings)
+		}
+		if w := c.Warnings[0]; w.Line != line || w.Path != tc.path || !strings.Contains(w.Message, tc.msg) {
+			t.Errorf("%s: got %s, want line %d path %q message containing %q", tc.name, w, line, tc.path, tc.msg)
+		}
+	}
+}
