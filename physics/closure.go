@@ -30,6 +30,25 @@ type Closure interface {
 	PotentialsTo(mu, x []float64, p float64) error
 }
 
+// LevelInvariant is implemented by closures whose concentrations do not
+// change when the same constant is added to every potential (those that
+// normalise the mole fractions implied by the potentials). Their potentials
+// have a level that the concentrations cannot see, and a composition
+// boundary that gives the potentials of only some species must impose them
+// relative to that level (SpeciesCondition.Relative).
+type LevelInvariant interface {
+	// LevelTo returns the level L(mu, p) of the potentials mu at absolute
+	// pressure p: L(mu + s, p) = L(mu, p) + s for every constant s, and
+	// L = 0 at the potentials PotentialsTo gives for (x, p). It writes
+	// dL/dmu_k into dL (length n), which sums to one. It does not allocate.
+	LevelTo(dL, mu []float64, p float64) float64
+}
+
+var (
+	_ LevelInvariant = (*IdealGasAtPressure)(nil)
+	_ LevelInvariant = (*IdealSolution)(nil)
+)
+
 var (
 	_ Closure = (*IdealGas)(nil)
 	_ Closure = (*IdealGasAtPressure)(nil)

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"strings"
 	"testing"
 
@@ -788,6 +789,76 @@ func TestMargulesNewtonRobust(t *testing.T) {
 			}
 			if err := ms.ConcentrationsTo(c, jmu, jp, mu, p); err != nil {
 				t.Errorf("%s: off-surface state mu = %v: %v", tc.name, mu, err)
+			}
+		}
+	}
+}
+
+// TestLevelInvariantClosures checks LevelTo against its definition: the
+// concentrations do not change when a constant is added to every
+// potential, the level moves by that constant, it is zero at the
+// potentials of PotentialsTo, and its gradient is the mole fractions (a
+// consequence of L = RT ln sum_j a_j, checked by central differences).
+func TestLevelInvariantClosures(t *testing.T) {
+	gas := airCO2(t)
+	igp, err := NewIdealGasAtPressure(gas, rt300, pAtm)
+	if err != nil {
+		t.Fatal(err)
+	}
+	liq, vol := liquidMixture(t, 3)
+	is, err := NewIdealSolution(liq, vol, rt300, pAtm)
+	if err != nil {
+		t.Fatal(err)
+	}
+	x := []float64{0.2, 0.5, 0.3}
+	for _, tc := range []struct {
+		name string
+		c    Closure
+		p    float64
+	}{{"ideal gas at pressure", igp, 1.2 * pAtm}, {"ideal solution", is, 3e6}} {
+		li := tc.c.(LevelInvariant)
+		mu := make([]float64, 3)
+		if err := tc.c.PotentialsTo(mu, x, tc.p); err != nil {
+			t.Fatal(err)
+		}
+		dL := make([]float64, 3)
+		if l := li.LevelTo(dL, mu, tc.p); math.Abs(l) > 1e-9*rt300 {
+			t.Errorf("%s: level %g at the equation-of-state potentials, want 0", tc.name, l)
+		}
+		for k, want := range x {
+			if math.Abs(dL[k]-want) > 1e-12 {
+				t.Errorf("%s: dL/dmu_%d = %.15g, want x = %g", tc.name, k, dL[k], want)
+			}
+		}
+		const s = 0.7 * rt300
+		c0, c1 := make([]float64, 3), make([]float64, 3)
+		shifted := []float64{mu[0] + s, mu[1] + s, mu[2] + s}
+		if err := tc.c.ConcentrationsTo(c0, nil, nil, mu, tc.p); err != nil {
+			t.Fatal(err)
+		}
+		if err := tc.c.ConcentrationsTo(c1, nil, nil, shifted, tc.p); err != nil {
+			t.Fatal(err)
+		}
+		for k := range c0 {
+			if math.Abs(c1[k]-c0[k]) > 1e-12*c0[k] {
+				t.Errorf("%s: c_%d changes from %g to %g with the level", tc.name, k, c0[k], c1[k])
+			}
+		}
+		if l := li.LevelTo(dL, shifted, tc.p); math.Abs(l-s) > 1e-9*rt300 {
+			t.Errorf("%s: level %g after a shift of %g", tc.name, l, s)
+		}
+		// Central differences of L at a point off the surface.
+		mu2 := []float64{mu[0] - 0.3*rt300, mu[1] + 0.1*rt300, mu[2]}
+		li.LevelTo(dL, mu2, tc.p)
+		for k := range mu2 {
+			h := 1e-5 * rt300
+			up, dn := slices.Clone(mu2), slices.Clone(mu2)
+			up[k] += h
+			dn[k] -= h
+			scratch := make([]float64, 3)
+			fd := (li.LevelTo(scratch, up, tc.p) - li.LevelTo(scratch, dn, tc.p)) / (2 * h)
+			if math.Abs(fd-dL[k]) > 1e-7 {
+				t.Errorf("%s: dL/dmu_%d = %.10g, central difference %.10g", tc.name, k, dL[k], fd)
 			}
 		}
 	}

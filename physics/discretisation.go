@@ -73,6 +73,9 @@ type Discretisation struct {
 	// edgeCond lists, per triangle with boundary edges, the local edges
 	// with natural data.
 	bnd []boundaryEdge
+	// relativeTri marks the triangles with a boundary edge whose species
+	// potential data are relative to the level (SpeciesCondition.Relative).
+	relativeTri map[int]bool
 
 	// given marks velocity unknowns with given values while the essential
 	// data are collected.
@@ -334,6 +337,14 @@ func (d *Discretisation) fixEssential() error {
 			}
 			nrm, _ := fem.OutwardNormal(m, e)
 			d.bnd = append(d.bnd, boundaryEdge{t: tri, local: le, edge: e, tag: t, normal: nrm})
+			for _, sc := range d.prob.Boundary[t].Species {
+				if sc.Kind == SpeciesPotential && sc.Relative {
+					if d.relativeTri == nil {
+						d.relativeTri = map[int]bool{}
+					}
+					d.relativeTri[tri] = true
+				}
+			}
 		}
 	}
 	return nil
@@ -477,7 +488,7 @@ func (d *Discretisation) couple() {
 			d.sys.Couple(off(blockJ0+i), fd, off(blockJ0+n+i), ud)
 			// The outflow rows of a species, and with the linearised
 			// convection every row, couple to every potential.
-			if d.convection || len(d.outflowOf[t]) > 0 {
+			if d.convection || len(d.outflowOf[t]) > 0 || d.relativeTri[t] {
 				for k := 0; k < n; k++ {
 					d.sys.Couple(off(blockJ0+i), fd, off(blockJ0+n+k), ud)
 				}
@@ -544,6 +555,9 @@ type assemblyWork struct {
 	vhat  [][2]float64
 	muhat []float64
 	juk   [][]float64
+	// mub and dl hold the boundary potentials and the level's gradient at
+	// one edge point (relative potential data).
+	mub, dl []float64
 }
 
 func newAssemblyWork(d *Discretisation) assemblyWork {
@@ -585,14 +599,18 @@ func newAssemblyWork(d *Discretisation) assemblyWork {
 	w.g = make([][2]float64, n)
 	w.gram = make([]float64, nf*nf)
 	w.gsign = make([]float64, nf)
-	if d.convection {
-		w.dcq = make([]float64, w.nq*n*n)
-		w.vhat = make([][2]float64, w.nq*n)
-		w.muhat = make([]float64, w.nq*n)
+	if d.convection || d.relativeTri != nil {
 		w.juk = make([][]float64, n*n)
 		for i := range w.juk {
 			w.juk[i] = make([]float64, nf*nm)
 		}
+		w.mub = make([]float64, n)
+		w.dl = make([]float64, n)
+	}
+	if d.convection {
+		w.dcq = make([]float64, w.nq*n*n)
+		w.vhat = make([][2]float64, w.nq*n)
+		w.muhat = make([]float64, w.nq*n)
 	}
 	return w
 }
@@ -632,6 +650,9 @@ func (d *Discretisation) assemble(fr frozenField) (*solver.CSR, []float64, error
 					break
 				}
 			}
+		}
+		useJuk := conv || d.relativeTri[t]
+		if useJuk {
 			for i := range w.juk {
 				clear(w.juk[i])
 			}
@@ -872,7 +893,7 @@ func (d *Discretisation) assemble(fr frozenField) (*solver.CSR, []float64, error
 			d.sys.AddMatrix(off(blockJ0+n+i), ud, nil, off(blockJ0+i), fd, fs, w.gram[:nm*nf])
 			scaleInto(w.gram[:nf*nm], w.ju, inv)
 			d.sys.AddMatrix(off(blockJ0+i), fd, fs, off(blockJ0+n+i), ud, nil, w.gram[:nf*nm])
-			if conv {
+			if useJuk {
 				for k := 0; k < n; k++ {
 					d.sys.AddMatrix(off(blockJ0+i), fd, fs, off(blockJ0+n+k), ud, nil, w.juk[i*n+k])
 				}
@@ -894,7 +915,7 @@ func (d *Discretisation) boundaryTerms(fr frozenField, t int, af *fem.Affine) er
 	tri := m.TriangleEdges[t]
 	w := &d.w
 	p, n := d.prob, d.n
-	nv, nf := w.nv, w.nf
+	nv, nf, nm := w.nv, w.nf, w.nm
 	for le, e := range tri {
 		if !m.IsBoundary(e) {
 			continue
@@ -944,11 +965,42 @@ func (d *Discretisation) boundaryTerms(fr frozenField, t int, af *fem.Affine) er
 			if sf, ok := fr.(stateField); ok && d.pressureRule {
 				pb = sf.edgePressure(t, le, q)
 			}
+			// Relative data: the level L of the previous iterate's
+			// potentials here and its gradient.
+			var level float64
+			relative := false
+			if sf, ok := fr.(stateField); ok && d.relativeTri[t] {
+				if li, ok := sf.pm.closure.(LevelInvariant); ok {
+					sf.edgePotentialsTo(w.mub, t, le, q)
+					level = li.LevelTo(w.dl, w.mub, sf.pm.p0)
+					for k := 0; k < n; k++ {
+						level -= w.dl[k] * w.mub[k]
+					}
+					relative = true
+				}
+			}
+			chi := d.ue.Value[le][q*nm : (q+1)*nm]
 			for i, sc := range bc.Species {
 				if sc.Kind != SpeciesPotential {
 					continue
 				}
-				v := sgn * d.fe.W[q] * (p.S*pb/rho - sc.Potential(xq)/p.Mixture.mass[i])
+				invM := 1 / p.Mixture.mass[i]
+				mub := sc.Potential(xq)
+				if relative && sc.Relative {
+					// mu_i,b = Potential + L^ - sum_k dL_k mu^_k (data)
+					// + sum_k dL_k mu_k (unknown, moved to the left).
+					mub += level
+					for k := 0; k < n; k++ {
+						blk := w.juk[i*n+k]
+						for a := 0; a < nf; a++ {
+							f := sgn * d.fe.W[q] * nt[q*nf+a] * w.dl[k] * invM
+							for s := 0; s < nm; s++ {
+								blk[a*nm+s] += f * chi[s]
+							}
+						}
+					}
+				}
+				v := sgn * d.fe.W[q] * (p.S*pb/rho - mub*invM)
 				for a := 0; a < nf; a++ {
 					w.fj[i][a] += v * nt[q*nf+a]
 				}

@@ -158,6 +158,16 @@ func (g *IdealGasAtPressure) ConcentrationsTo(c, dcdmu, dcdp, mu []float64, p fl
 	return checkPositive("ideal gas at pressure", g.mix.names, c)
 }
 
+// LevelTo implements LevelInvariant: L = RT (ln sum_j exp(mu_j/RT) -
+// ln(p/P_ref)), dL/dmu_k = x_k(mu).
+func (g *IdealGasAtPressure) LevelTo(dL, mu []float64, p float64) float64 {
+	for i, m := range mu {
+		dL[i] = m / g.rt
+	}
+	lse := softmaxTo(dL, dL)
+	return g.rt * (lse - math.Log(p/g.pRef))
+}
+
 // PotentialsTo implements Closure: mu_i = RT ln(x_i p / P_ref). p must be
 // positive.
 func (g *IdealGasAtPressure) PotentialsTo(mu, x []float64, p float64) error {

@@ -53,6 +53,16 @@ func NewIdealSolution(mix *Mixture, volumes []float64, RT, pRef float64) (*Ideal
 // Len returns the number of species.
 func (s *IdealSolution) Len() int { return s.mix.n }
 
+// LevelTo implements LevelInvariant: L = RT ln sum_j a_j with
+// a_j = exp((mu_j - V_j (p - P_ref))/RT), dL/dmu_k = x_k(mu, p).
+func (s *IdealSolution) LevelTo(dL, mu []float64, p float64) float64 {
+	dp := p - s.pRef
+	for i, m := range mu {
+		dL[i] = (m - s.vol[i]*dp) / s.rt
+	}
+	return s.rt * softmaxTo(dL, dL)
+}
+
 // ConcentrationsTo implements Closure. It does not allocate.
 func (s *IdealSolution) ConcentrationsTo(c, dcdmu, dcdp, mu []float64, p float64) error {
 	n := s.mix.n

@@ -149,6 +149,42 @@ func (sf stateField) edgePressure(t, le, q int) float64 {
 	return v
 }
 
+// edgePotentialsTo writes the state's potentials at point q of the edge
+// rule on local edge le of triangle t into dst: the previous step's
+// discontinuous potentials where the state carries them (linearised
+// convection), else the continuous projection Pi mu* the concentrations
+// are built from.
+func (sf stateField) edgePotentialsTo(dst []float64, t, le, q int) {
+	d := sf.pm.d
+	if d.convection {
+		nF, nU := d.F.Len(), d.U.Len()
+		base := sf.x[sf.pm.previousOffset()+d.n*nF:]
+		ud := d.U.Dofs(t)
+		nm := len(ud)
+		val := d.ue.Value[le][q*nm : (q+1)*nm]
+		for i := range dst[:d.n] {
+			blk := base[i*nU : (i+1)*nU]
+			var v float64
+			for a, g := range ud {
+				v += blk[g] * val[a]
+			}
+			dst[i] = v
+		}
+		return
+	}
+	vd := d.V.Dofs(t)
+	nv, nV := len(vd), d.V.Len()
+	val := d.ve.Value[le][q*nv : (q+1)*nv]
+	for i := range dst[:d.n] {
+		blk := sf.x[i*nV : (i+1)*nV]
+		var v float64
+		for a, g := range vd {
+			v += blk[g] * val[a]
+		}
+		dst[i] = v
+	}
+}
+
 // previousTo writes the previous step's species velocities J^_j/rho^_j
 // (rho^_j from the frozen concentrations c at the triangle rule's points)
 // and discontinuous potentials mu^_j at the points of triangle t, whose

@@ -149,6 +149,15 @@ type SpeciesCondition struct {
 	Flux func(x, n [2]float64) float64
 	// Potential is the chemical potential mu_i for SpeciesPotential.
 	Potential func(x [2]float64) float64
+	// Relative, for SpeciesPotential under a LevelInvariant closure in
+	// the nonlinear iteration, imposes Potential plus the level L of the
+	// potentials at the boundary, linearised about the previous iterate:
+	// mu_i,b = Potential + L(mu^) + sum_k dL_k (mu_k - mu^_k). A
+	// composition that gives only some species then fixes their mole
+	// fractions, not their potentials' absolute values, which a level
+	// invariant closure cannot see (docs/outflow.md). Some other boundary
+	// (full composition, or outflow) must fix the level.
+	Relative bool
 }
 
 // BoundaryCondition holds every condition of one boundary tag.

@@ -31,9 +31,13 @@ type Setup struct {
 
 	mix      *physics.Mixture // SI
 	pressure float64          // reference pressure, scaled thermodynamic units
-	initial  []float64        // initial potentials (scaled), uniform
-	tagOf    map[string]int
-	locator  *locator
+	// relativeComposition: compositions with impermeable species are
+	// imposed relative to the potentials' level
+	// (physics.SpeciesCondition.Relative).
+	relativeComposition bool
+	initial             []float64 // initial potentials (scaled), uniform
+	tagOf               map[string]int
+	locator             *locator
 }
 
 // Flux is the integrated outward flux of one species through one boundary,
