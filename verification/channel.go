@@ -67,16 +67,19 @@ type ChannelConfig struct {
 	Grading float64
 	// MeanSpeed is the mean inflow speed in m/s (0: 1 m/s).
 	MeanSpeed float64
-	// Thermodynamics is the closure (empty: ideal-gas-at-pressure).
+	// Thermodynamics is the closure, ideal-gas or ideal-gas-at-pressure
+	// (empty: ideal-gas; docs/outflow.md compares the two).
 	Thermodynamics string
 }
 
 // ChannelStudy is the result of a channel benchmark.
 type ChannelStudy struct {
-	Problem string  `json:"problem"`
-	Degree  int     `json:"degree"`
-	Peclet  float64 `json:"peclet"`
-	S       float64 `json:"S"`
+	Problem string `json:"problem"`
+	Degree  int    `json:"degree"`
+	// Thermodynamics is the closure used.
+	Thermodynamics string  `json:"thermodynamics"`
+	Peclet         float64 `json:"peclet"`
+	S              float64 `json:"S"`
 	// Rows holds the cell rows across the height per level, H the cell
 	// size relative to the height.
 	Rows     []int     `json:"rows"`
@@ -174,7 +177,7 @@ func channelCase(cfg ChannelConfig, rows int, length float64) (*casefile.Case, e
 	}
 	thermo := cfg.Thermodynamics
 	if thermo == "" {
-		thermo = "ideal-gas-at-pressure"
+		thermo = "ideal-gas"
 	}
 	method := cfg.Method
 	if method == "" {
@@ -297,7 +300,10 @@ func RunChannel(cfg ChannelConfig) (*ChannelStudy, error) {
 	if coarse == 0 {
 		coarse = 4
 	}
-	st := &ChannelStudy{Problem: "channel", Degree: cfg.Degree, Peclet: channelSpeed * channelHeight / channelDmin}
+	st := &ChannelStudy{Problem: "channel", Degree: cfg.Degree, Peclet: channelSpeed * channelHeight / channelDmin, Thermodynamics: cfg.Thermodynamics}
+	if st.Thermodynamics == "" {
+		st.Thermodynamics = "ideal-gas"
+	}
 	if cfg.MeanSpeed != 0 {
 		st.Peclet = cfg.MeanSpeed * channelHeight / channelDmin
 	}

@@ -59,6 +59,8 @@ type verifyOptions struct {
 	groupS  float64
 	regime  string
 	beta    float64
+
+	thermodynamics string
 }
 
 func newVerifyCmd(d deps) *cobra.Command {
@@ -138,6 +140,7 @@ is a terminal, a line per solved level is printed there unless --quiet.`,
 	f.Float64Var(&o.groupS, "group-s", 0, "dimensionless group `S` of --problem sosm (0: 1 for frozen, 1e-7 otherwise)")
 	f.StringVar(&o.regime, "regime", "", "`REGIME` of --problem sosm: unit (S = 1) or physical (S = 1e-7); the default depends on --flavour")
 	f.Float64Var(&o.beta, "beta", 0, "one-sided species augmentation `BETA` of --problem sosm (0: the default 1; negative: none)")
+	f.StringVar(&o.thermodynamics, "thermodynamics", "ideal-gas", "`CLOSURE` of --problem channel: ideal-gas or ideal-gas-at-pressure")
 	f.StringVar(&o.format, "format", "table", "output `FORMAT`: table or json")
 	f.StringVar(&o.plot, "plot", "", "also draw error against h on log–log axes into `FILE` (.png or .svg)")
 	f.BoolVarP(&o.quiet, "quiet", "q", false, "print no progress lines")
@@ -217,6 +220,9 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 		}
 	}
 
+	if flags.Changed("thermodynamics") {
+		return cfg, fmt.Errorf("--thermodynamics applies only to --problem channel, not to %s", o.problem)
+	}
 	for _, name := range []string{"species", "flavour", "method", "max-iterations", "group-s", "regime", "beta"} {
 		if flags.Changed(name) && o.problem != "sosm" {
 			return cfg, fmt.Errorf("--%s applies only to --problem sosm, not to %s", name, o.problem)
@@ -380,6 +386,7 @@ func registerVerifyCompletions(cmd *cobra.Command, d deps) {
 	}))
 	must(cmd.RegisterFlagCompletionFunc("mesh", fixed(meshChoices...)))
 	must(cmd.RegisterFlagCompletionFunc("format", fixed(formatChoices...)))
+	must(cmd.RegisterFlagCompletionFunc("thermodynamics", fixed(channelClosures...)))
 	must(cmd.RegisterFlagCompletionFunc("plot", cobra.FixedCompletions([]string{"png", "svg"}, cobra.ShellCompDirectiveFilterFileExt)))
 }
 

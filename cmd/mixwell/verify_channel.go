@@ -15,6 +15,9 @@ import (
 // reports balances and mesh independence instead of convergence rates.
 const channelProblem = "channel"
 
+// channelClosures are the closures the channel benchmark offers.
+var channelClosures = []string{"ideal-gas", "ideal-gas-at-pressure"}
+
 // channelConfig checks the flags of --problem channel.
 func (o *verifyOptions) channelConfig(cmd *cobra.Command) (verification.Config, error) {
 	var cfg verification.Config
@@ -39,6 +42,9 @@ func (o *verifyOptions) channelConfig(cmd *cobra.Command) (verification.Config, 
 	if err := o.checkIteration(); err != nil {
 		return cfg, err
 	}
+	if err := checkChoice("thermodynamics", o.thermodynamics, channelClosures); err != nil {
+		return cfg, err
+	}
 	maxIt := o.maxIter
 	if !flags.Changed("max-iterations") {
 		maxIt = 0 // the benchmark's own default
@@ -51,7 +57,7 @@ func (o *verifyOptions) channelConfig(cmd *cobra.Command) (verification.Config, 
 func runChannel(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.Config) error {
 	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
 	cc := verification.ChannelConfig{Degree: cfg.Degree, Levels: cfg.Levels, Coarse: cfg.Coarse,
-		Method: cfg.Method, MaxIterations: cfg.MaxIterations}
+		Method: cfg.Method, MaxIterations: cfg.MaxIterations, Thermodynamics: o.thermodynamics}
 	if !o.quiet && d.isTerminal(stderr) {
 		start := time.Now()
 		cc.Progress = func(what string, unknowns int) {
@@ -84,7 +90,7 @@ func runChannel(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.C
 
 // writeChannelTable prints a channel study as a table.
 func writeChannelTable(w interface{ Write([]byte) (int, error) }, st *verification.ChannelStudy) {
-	fmt.Fprintf(w, "channel benchmark, degree %d, Peclet number %.3g, S = %.3g\n", st.Degree, st.Peclet, st.S)
+	fmt.Fprintf(w, "channel benchmark, degree %d, %s, Peclet number %.3g, S = %.3g\n", st.Degree, st.Thermodynamics, st.Peclet, st.S)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "rows\tunknowns\titerations\tconverged\tpatch flux A (mol/(s m))\toutlet x_A\tmass average\tEOS defect\tseconds\t")
 	for l := range st.Rows {

@@ -158,6 +158,10 @@ func TestVerifyRejectsMisuse(t *testing.T) {
 			[]string{`--method "gauss"`, "anderson, picard, newton-krylov"}},
 		{"channel bad format", []string{"--problem", "channel", "--degree", "1", "--format", "xml"},
 			[]string{`--format "xml"`, "table, json"}},
+		{"channel bad closure", []string{"--problem", "channel", "--degree", "1", "--thermodynamics", "margules"},
+			[]string{`--thermodynamics "margules"`, "ideal-gas, ideal-gas-at-pressure"}},
+		{"closure with poisson", []string{"--problem", "poisson", "--degree", "1", "--thermodynamics", "ideal-gas"},
+			[]string{"--thermodynamics applies only to --problem channel"}},
 		{"positional argument", []string{"poisson"},
 			[]string{`unknown command "poisson"`}},
 		{"unknown flag", []string{"--problme", "poisson"},
@@ -399,7 +403,7 @@ func TestVerifyPoissonJSON(t *testing.T) {
 func TestWriteChannelTable(t *testing.T) {
 	// The table prints one row per level and the study's summary line
 	// with the values given (made-up numbers: only the layout is tested).
-	st := &verification.ChannelStudy{Degree: 1, Peclet: 6.25, S: 2.2e-8,
+	st := &verification.ChannelStudy{Degree: 1, Thermodynamics: "ideal-gas-at-pressure", Peclet: 6.25, S: 2.2e-8,
 		Rows: []int{4, 8}, Unknowns: []int{100, 400}, Iterations: []int{40, 41}, Converged: []bool{true, false},
 		PatchFlux: []float64{8.5e-4, 8.6e-4}, OutletA: []float64{0.25, 0.26}, MassAverageLevels: []float64{4e-3, 2e-3},
 		EOSDefect: []float64{3e-2, 1e-2}, Seconds: []float64{1, 2},
@@ -407,7 +411,7 @@ func TestWriteChannelTable(t *testing.T) {
 	var b bytes.Buffer
 	writeChannelTable(&b, st)
 	out := b.String()
-	for _, want := range []string{"Peclet number 6.25", "EOS defect", "1.000e-02", "false", "truncation 1.500e-03", "patch flux change 1.200e-02"} {
+	for _, want := range []string{"ideal-gas-at-pressure, Peclet number 6.25", "EOS defect", "1.000e-02", "false", "truncation 1.500e-03", "patch flux change 1.200e-02"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("table lacks %q:\n%s", want, out)
 		}
