@@ -47,6 +47,7 @@ type LevelInvariant interface {
 var (
 	_ LevelInvariant = (*IdealGasAtPressure)(nil)
 	_ LevelInvariant = (*IdealSolution)(nil)
+	_ LevelInvariant = (*MargulesSolution)(nil)
 )
 
 var (

@@ -810,12 +810,16 @@ func TestLevelInvariantClosures(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	ms, err := NewMargulesSolution(liq, vol, margulesPairs(liq, margulesTernary), rt300, pAtm)
+	if err != nil {
+		t.Fatal(err)
+	}
 	x := []float64{0.2, 0.5, 0.3}
 	for _, tc := range []struct {
 		name string
 		c    Closure
 		p    float64
-	}{{"ideal gas at pressure", igp, 1.2 * pAtm}, {"ideal solution", is, 3e6}} {
+	}{{"ideal gas at pressure", igp, 1.2 * pAtm}, {"ideal solution", is, 3e6}, {"Margules", ms, 3e6}} {
 		li := tc.c.(LevelInvariant)
 		mu := make([]float64, 3)
 		if err := tc.c.PotentialsTo(mu, x, tc.p); err != nil {

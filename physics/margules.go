@@ -233,6 +233,39 @@ func trialPoint(xt, x, dy []float64, t float64) {
 	softmaxTo(xt, xt)
 }
 
+// LevelTo implements LevelInvariant: L = RT lambda, the multiplier of the
+// type documentation, which the potentials of PotentialsTo make zero;
+// dL/dmu_k = x_k, because sum_i x_i d ln gamma_i = 0 (Gibbs–Duhem for the
+// excess part) and sum_i dx_i = 0. It returns NaN when the mole fractions
+// cannot be computed. It does not allocate for up to 8 species.
+func (s *MargulesSolution) LevelTo(dL, mu []float64, p float64) float64 {
+	n := s.mix.n
+	if err := s.ConcentrationsTo(dL, nil, nil, mu, p); err != nil {
+		return math.NaN()
+	}
+	var cT float64
+	for _, c := range dL[:n] {
+		cT += c
+	}
+	for i := range dL[:n] {
+		dL[i] /= cT
+	}
+	var lg, ax []float64
+	if n <= margulesMaxStack {
+		var b1, b2 [margulesMaxStack]float64
+		lg, ax = b1[:n], b2[:n]
+	} else {
+		lg, ax = make([]float64, n), make([]float64, n)
+	}
+	s.lnGammaTo(lg, ax, dL[:n])
+	dp := p - s.pRef
+	var lambda float64
+	for i, x := range dL[:n] {
+		lambda += x * ((mu[i]-s.vol[i]*dp)/s.rt - math.Log(x) - lg[i])
+	}
+	return s.rt * lambda
+}
+
 // ConcentrationsTo implements Closure. It does not allocate for up to 8
 // species. The error is a *StateError if the Newton iteration fails.
 //
