@@ -22,10 +22,10 @@ test-long:
 bench:
 	$(GO) test -run '^$$' -bench . -benchmem ./...
 
-# Placeholder demonstration: a Taylor–Hood Stokes convergence study. A later
-# issue replaces it with a real embedded mixture case and "mixwell demo".
+# The embedded demonstration case (README, "Try it"): a few seconds, results
+# and the case itself in ./mixwell-demo.
 demo:
-	$(GO) run ./cmd/mixwell verify --problem stokes --pair taylor-hood --degree 2 --levels 4 --format table
+	$(GO) run ./cmd/mixwell demo --out mixwell-demo
 
 # Cross-check of the sparse direct solver against Debian's python3-scipy.
 # Installs nothing: the test skips, and says so, when scipy is missing.
