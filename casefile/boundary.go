@@ -264,13 +264,15 @@ func (d *decoder) boundaryChecks(n *yaml.Node, geo *geometryNames, c *Case, node
 			d.fail(bn.species, join(bp, "species"), "convective-inflow needs velocity type inflow (it takes the flux from the inflow velocity), got %s", b.Velocity.Kind)
 		case b.Species.Kind == Outflow && b.Velocity.Kind != "" && b.Velocity.Kind != Open:
 			d.fail(bn.species, join(bp, "species"), "outflow needs velocity type open, got %s", b.Velocity.Kind)
-		case b.Species.Kind == Composition && b.Velocity.Kind == Wall:
+		case b.Species.Kind == Composition && b.Velocity.Kind == StefanWall && !anyTrue(b.Species.Impermeable):
+			d.fail(bn.species, join(bp, "species"), "composition data for every species on a stefan-wall leave its normal velocity undetermined (the exchanged mass flux is whatever the wall lets through); list the species that do not cross the wall under impermeable, e.g. the solvent at a dissolving solid, or give fluxes (formulation note, section 10 item 3)")
+		case b.Species.Kind == Composition && b.Velocity.Kind == Wall && !anyTrue(b.Species.Impermeable):
 			d.warn(bn.species, join(bp, "species"), "composition data for every species on a no-slip wall describe a reservoir, not a wall; if the wall exchanges mass use velocity type stefan-wall (formulation note, section 10 item 3)")
 		}
 		if b.Species.Kind == Composition && !geo.layers[b.Name] {
 			var zero []string
 			for j, x := range b.Species.MoleFractions {
-				if x == 0 {
+				if x == 0 && !(j < len(b.Species.Impermeable) && b.Species.Impermeable[j]) {
 					zero = append(zero, c.Species[j].Name)
 				}
 			}
@@ -384,4 +386,14 @@ func axisParallel(segs []segment) bool {
 		}
 	}
 	return true
+}
+
+// anyTrue reports whether some element of v is true.
+func anyTrue(v []bool) bool {
+	for _, b := range v {
+		if b {
+			return true
+		}
+	}
+	return false
 }

@@ -23,7 +23,7 @@ geometry:
 boundaries:
   bottom:
     velocity: stefan-wall
-    species: {type: composition, mole_fractions: {A: 0.6, B: 0.4}}
+    species: {type: composition, mole_fractions: {A: 0.6, B: 0.4}, impermeable: [B]}
   top:
     velocity: open
     species: {type: composition, mole_fractions: {A: 0.1, B: 0.9}}

@@ -38,6 +38,7 @@ boundaries:
     species:
       type: composition
       mole_fractions: {A: 0.5, B: 0.3, C: 0.2}
+      impermeable: [C]
   top:
     velocity: {type: open, pressure: 0}
     species:
@@ -132,10 +133,12 @@ func TestParseErrors(t *testing.T) {
 		{name: "boundary without condition", edit: [][2]string{{"  wall:\n    velocity: slip\n", ""}},
 			at: "  bottom:", path: "boundaries", msg: "no condition for the boundary wall of the geometry"},
 		{name: "outflow everywhere", edit: [][2]string{
-			{"velocity: stefan-wall", "velocity: open"}, {"    species:\n      type: composition\n      mole_fractions: {A: 0.5, B: 0.3, C: 0.2}", "    species: outflow"},
+			{"velocity: stefan-wall", "velocity: open"}, {"    species:\n      type: composition\n      mole_fractions: {A: 0.5, B: 0.3, C: 0.2}\n      impermeable: [C]", "    species: outflow"},
 			{"    species:\n      type: composition\n      mole_fractions: {A: 0.1, B: 0.1, C: 0.8}", "    species: outflow"},
 			{"    velocity: slip", "    velocity: open\n    species: outflow"}},
 			at: "  bottom:", path: "boundaries", msg: "species outflow on every boundary"},
+		{name: "composition for every species on a stefan-wall", edit: [][2]string{{"C: 0.2}\n      impermeable: [C]", "C: 0.2}"}},
+			at: "      type: composition\n      mole_fractions: {A: 0.5", path: "boundaries.bottom.species", msg: "leave its normal velocity undetermined"},
 		{name: "outflow on a wall", edit: [][2]string{{"    velocity: slip", "    velocity: slip\n    species: outflow"}},
 			at: "outflow", col: true, path: "boundaries.wall.species", msg: "outflow needs velocity type open, got slip"},
 		{name: "convective inflow on an open boundary", edit: [][2]string{{"      type: composition\n      mole_fractions: {A: 0.1", "      type: convective-inflow\n      mole_fractions: {A: 0.1"}},
@@ -204,7 +207,7 @@ func TestParseErrors(t *testing.T) {
 		{name: "unknown field", edit: [][2]string{{"viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\noutput: {fields: [velocity, vorticity]}"}},
 			at: "vorticity", col: true, path: "output.fields[1]", msg: `"vorticity" is not one of velocity,`},
 		{name: "no composition anywhere", edit: [][2]string{
-			{"    species:\n      type: composition\n      mole_fractions: {A: 0.5, B: 0.3, C: 0.2}\n", ""},
+			{"    species:\n      type: composition\n      mole_fractions: {A: 0.5, B: 0.3, C: 0.2}\n      impermeable: [C]\n", ""},
 			{"    species:\n      type: composition\n      mole_fractions: {A: 0.1, B: 0.1, C: 0.8}\n", ""}},
 			at: "title:", path: "initial.mole_fractions", msg: "no boundary gives a composition"},
 		{name: "alias", edit: [][2]string{{"temperature: 300 K", "temperature: &t 300 K\ntitle2: *t"}},
@@ -315,7 +318,7 @@ func TestParseWarnings(t *testing.T) {
 		path string
 		msg  string
 	}{
-		{"composition on a no-slip wall", [2]string{"velocity: stefan-wall", "velocity: wall"},
+		{"composition on a no-slip wall", [2]string{"velocity: stefan-wall\n    species:\n      type: composition\n      mole_fractions: {A: 0.5, B: 0.3, C: 0.2}\n      impermeable: [C]", "velocity: wall\n    species:\n      type: composition\n      mole_fractions: {A: 0.5, B: 0.3, C: 0.2}"},
 			"      type: composition\n      mole_fractions: {A: 0.5", "boundaries.bottom.species", "describe a reservoir, not a wall"},
 		{"zero mole fraction without layers", [2]string{"{A: 0.1, B: 0.1, C: 0.8}", "{A: 0, B: 0.2, C: 0.8}"},
 			"      type: composition\n      mole_fractions: {A: 0,", "boundaries.top.species", "mole fraction 0 for A: the solver raises it to 1e-06"},
@@ -434,7 +437,7 @@ func TestMeshFile(t *testing.T) {
 	boundaries := `boundaries:
   bottom:
     velocity: stefan-wall
-    species: {type: composition, mole_fractions: {A: 0.5, B: 0.3, C: 0.2}}
+    species: {type: composition, mole_fractions: {A: 0.5, B: 0.3, C: 0.2}, impermeable: [C]}
   rest:
     velocity: slip
 `
@@ -477,7 +480,7 @@ func TestParseWarnsAboutClosuresInFlowThrough(t *testing.T) {
 	// docs/outflow.md: with an outflow boundary, ideal-gas lets the total
 	// concentration drift; ideal-gas-at-pressure does not.
 	outflow := [2]string{"    species:\n      type: composition\n      mole_fractions: {A: 0.1, B: 0.1, C: 0.8}", "    species: outflow"}
-	partial := [2]string{"      mole_fractions: {A: 0.5, B: 0.3, C: 0.2}", "      mole_fractions: {A: 0.5, B: 0.3, C: 0.2}\n      impermeable: [B, C]"}
+	partial := [2]string{"      impermeable: [C]", "      impermeable: [B, C]"}
 	normalised := [2]string{"thermodynamics: ideal-gas\n", "thermodynamics: ideal-gas-at-pressure\n"}
 	for _, tc := range []struct {
 		name  string
