@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"mixwell/fem"
+	"mixwell/mesh"
 )
 
 // Diagnostics are the checks a run reports after a solve (formulation note,
@@ -14,7 +15,8 @@ type Diagnostics struct {
 	MassAverage float64
 	// Conservation is the largest element defect
 	// |int_T div J_i - M_i int_T r_i| over triangles and species, relative
-	// to the largest |int_T div J_i| (absolute when that is zero).
+	// to the largest flux through an element's boundary, estimated as
+	// (int_T |J_i| dx) |dT| / |T| (absolute when every flux is zero).
 	Conservation float64
 	// BoundaryFlux[tag][i] is the outward mass flux of species i through
 	// the boundary segment with that tag, int J_i . n ds.
@@ -41,12 +43,14 @@ func (d *Discretisation) Diagnose(sol *Solution) Diagnostics {
 	r := make([]float64, n)
 	divs := make([]float64, n)
 	prods := make([]float64, n)
+	sizes := make([]float64, n)
 	for t := 0; t < m.NumTriangles(); t++ {
 		af := fem.ElementMap(m, t)
 		d.fq.Reinit(&af)
 		fd, fs := d.F.Dofs(t), d.F.Signs(t)
 		clear(divs)
 		clear(prods)
+		clear(sizes)
 		for q := 0; q < d.fq.NQ; q++ {
 			W := d.fq.W[q]
 			clear(r)
@@ -54,19 +58,26 @@ func (d *Discretisation) Diagnose(sol *Solution) Diagnostics {
 				p.Source.Production(r, d.fq.X[q])
 			}
 			dv := d.fq.Div[q*nf : (q+1)*nf]
+			fv := d.fq.Val[q*nf : (q+1)*nf]
 			for i := 0; i < n; i++ {
 				jc := sol.Flux(i)
 				var v float64
+				var jv [2]float64
 				for b := 0; b < nf; b++ {
-					v += fs[b] * jc[fd[b]] * dv[b]
+					c := fs[b] * jc[fd[b]]
+					v += c * dv[b]
+					jv[0] += c * fv[b][0]
+					jv[1] += c * fv[b][1]
 				}
 				divs[i] += W * v
 				prods[i] += W * p.Mixture.mass[i] * r[i]
+				sizes[i] += W * math.Hypot(jv[0], jv[1])
 			}
 		}
+		perArea := trianglePerimeter(m, t) / (0.5 * af.AbsDet())
 		for i := 0; i < n; i++ {
 			worst = math.Max(worst, math.Abs(divs[i]-prods[i]))
-			scale = math.Max(scale, math.Abs(divs[i]))
+			scale = math.Max(scale, sizes[i]*perArea)
 			dg.Production[i] += prods[i]
 		}
 	}
@@ -205,4 +216,15 @@ func (d *Discretisation) MassAverageNorms(sol *Solution) (defect, velocity, spec
 		sp = math.Max(sp, v)
 	}
 	return math.Sqrt(num), math.Sqrt(den), math.Sqrt(sp)
+}
+
+// trianglePerimeter returns the perimeter of triangle t of m.
+func trianglePerimeter(m *mesh.Mesh, t int) float64 {
+	tri := m.Triangles[t]
+	var l float64
+	for a := 0; a < 3; a++ {
+		p, q := m.Points[tri[a]], m.Points[tri[(a+1)%3]]
+		l += math.Hypot(q[0]-p[0], q[1]-p[1])
+	}
+	return l
 }

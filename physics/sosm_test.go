@@ -119,6 +119,25 @@ func TestMetresAndMillimetres(t *testing.T) {
 		if dg.Balance > 1e-10 {
 			t.Errorf("unit %g: species balance %.3g", unit, dg.Balance)
 		}
+		// No production: every element's fluxes balance to rounding, and
+		// the defect is measured against the flux through the element.
+		if !(dg.Conservation < 1e-12) {
+			t.Errorf("unit %g: element conservation defect %.3g, want < 1e-12", unit, dg.Conservation)
+		}
+		if c == 0 {
+			// One flux coefficient moved by 1e-4 of the largest must show.
+			j := sol.Flux(0)
+			var big float64
+			for _, v := range j {
+				big = math.Max(big, math.Abs(v))
+			}
+			k := len(j) / 2
+			j[k] += 1e-4 * big
+			if got := d.Diagnose(sol).Conservation; !(got > 1e-6) {
+				t.Errorf("a perturbed flux gives an element conservation defect %.3g, want > 1e-6", got)
+			}
+			j[k] -= 1e-4 * big
+		}
 		for i := 0; i < 3; i++ {
 			// Scaled flux through the top per unit scaled depth, back to
 			// kg/(s m of depth): J L (the depth is one length unit).
