@@ -44,7 +44,8 @@ type Summary struct {
 	// absolute, in scaled units, when v = 0).
 	MassAverageResidual Number `json:"mass_average_residual"`
 	// ElementConservation is the largest element-wise species conservation
-	// defect, relative to the largest element divergence.
+	// defect |int_T div J_i - M_i int_T r_i|, relative to the largest flux
+	// through an element's boundary (physics.Diagnostics.Conservation).
 	ElementConservation Number `json:"element_conservation"`
 	// WallPressureApproximation is the largest |p| M_i / (rho R T) on
 	// boundaries with composition data: the size of the approximation

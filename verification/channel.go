@@ -63,13 +63,17 @@ type ChannelConfig struct {
 	// NoTruncation leaves out the longer channel (Truncation stays 0).
 	NoTruncation bool
 	// Grading is the exponent of the power grading toward the patch ends
-	// and the bottom wall (0: 2; 1: a uniform grid).
+	// and the bottom wall (0: 3; 1: a uniform grid).
 	Grading float64
 	// MeanSpeed is the mean inflow speed in m/s (0: 1 m/s).
 	MeanSpeed float64
 	// Thermodynamics is the closure, ideal-gas or ideal-gas-at-pressure
 	// (empty: ideal-gas; docs/outflow.md compares the two).
 	Thermodynamics string
+	// SpeciesAugmentation is the one-sided species augmentation beta
+	// (0: the case default 1; negative: none, remedy (a) of
+	// docs/augmentation.md).
+	SpeciesAugmentation float64
 }
 
 // ChannelStudy is the result of a channel benchmark.
@@ -225,6 +229,12 @@ solver:
 `, channelTemperature, channelPressure, thermo, cfg.Degree, speed, method, maxIt)
 	if method != "anderson" {
 		text = strings.Replace(text, "  anderson_depth: 20\n", "", 1)
+	}
+	switch b := cfg.SpeciesAugmentation; {
+	case b < 0:
+		text += "  species_augmentation: 0\n"
+	case b > 0:
+		text += fmt.Sprintf("  species_augmentation: %g\n", b)
 	}
 	fsys := fstest.MapFS{"channel.mesh": {Data: buf.Bytes()}}
 	return casefile.ParseFS("channel.yaml", []byte(text), fsys)
