@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"sort"
 	"strconv"
 	"time"
 
@@ -288,7 +289,15 @@ func newSummary(r *Run) *Summary {
 		s.Species = append(s.Species, sp.Name)
 	}
 	net := make([]Flux, len(c.Species))
-	for name, fl := range o.BoundaryFlux {
+	// Sum in name order, so that the net outflow's rounding is the same
+	// from run to run.
+	names := make([]string, 0, len(o.BoundaryFlux))
+	for name := range o.BoundaryFlux {
+		names = append(names, name)
+	}
+	sort.Strings(names)
+	for _, name := range names {
+		fl := o.BoundaryFlux[name]
 		per := map[string]Flux{}
 		for i, f := range fl {
 			if i >= len(c.Species) {

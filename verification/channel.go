@@ -81,9 +81,11 @@ type ChannelStudy struct {
 	Problem string `json:"problem"`
 	Degree  int    `json:"degree"`
 	// Thermodynamics is the closure used.
-	Thermodynamics string  `json:"thermodynamics"`
-	Peclet         float64 `json:"peclet"`
-	S              float64 `json:"S"`
+	Thermodynamics string `json:"thermodynamics"`
+	// Beta is the one-sided species augmentation used (0: none).
+	Beta   float64 `json:"beta"`
+	Peclet float64 `json:"peclet"`
+	S      float64 `json:"S"`
 	// Rows holds the cell rows across the height per level, H the cell
 	// size relative to the height.
 	Rows     []int     `json:"rows"`
@@ -326,6 +328,7 @@ func RunChannel(cfg ChannelConfig) (*ChannelStudy, error) {
 			return nil, err
 		}
 		st.S = o.Setup.Scales.S()
+		st.Beta = o.Setup.Case.Solver.SpeciesAugmentation
 		st.Rows = append(st.Rows, rows)
 		st.H = append(st.H, 1/float64(rows))
 		st.Unknowns = append(st.Unknowns, o.Setup.Unknowns())

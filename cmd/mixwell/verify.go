@@ -64,7 +64,14 @@ type verifyOptions struct {
 }
 
 func newVerifyCmd(d deps) *cobra.Command {
-	var o verifyOptions
+	cmd, _ := newVerifyCmdOptions(d)
+	return cmd
+}
+
+// newVerifyCmdOptions returns the verify command and the options its flags
+// fill in.
+func newVerifyCmdOptions(d deps) (*cobra.Command, *verifyOptions) {
+	o := new(verifyOptions)
 	cmd := &cobra.Command{
 		Use:   "verify --problem NAME --degree K [flags]",
 		Short: "Run a convergence study against a manufactured solution",
@@ -114,7 +121,7 @@ is a terminal, a line per solved level is printed there unless --quiet.`,
 			// From here on the flags are well formed; failures are not
 			// misuse, so they print one error line without usage text.
 			cmd.SilenceUsage = true
-			return runVerify(cmd, d, &o, cfg)
+			return runVerify(cmd, d, o, cfg)
 		},
 	}
 
@@ -139,7 +146,7 @@ is a terminal, a line per solved level is printed there unless --quiet.`,
 	f.IntVar(&o.maxIter, "max-iterations", 60, "most nonlinear iterations `M` per level (--problem sosm)")
 	f.Float64Var(&o.groupS, "group-s", 0, "dimensionless group `S` of --problem sosm (0: 1 for frozen, 1e-7 otherwise)")
 	f.StringVar(&o.regime, "regime", "", "`REGIME` of --problem sosm: unit (S = 1) or physical (S = 1e-7); the default depends on --flavour")
-	f.Float64Var(&o.beta, "beta", 0, "one-sided species augmentation `BETA` of --problem sosm (0: the default 1; negative: none)")
+	f.Float64Var(&o.beta, "beta", 0, "one-sided species augmentation `BETA` of --problem sosm or channel (0: the default; negative: none)")
 	f.StringVar(&o.thermodynamics, "thermodynamics", "ideal-gas", "`CLOSURE` of --problem channel: ideal-gas or ideal-gas-at-pressure")
 	f.StringVar(&o.format, "format", "table", "output `FORMAT`: table or json")
 	f.StringVar(&o.plot, "plot", "", "also draw error against h on log–log axes into `FILE` (.png or .svg)")
@@ -147,7 +154,7 @@ is a terminal, a line per solved level is printed there unless --quiet.`,
 	f.SortFlags = false
 
 	registerVerifyCompletions(cmd, d)
-	return cmd
+	return cmd, o
 }
 
 // config checks the flags and turns them into a study configuration. Its
@@ -447,10 +454,12 @@ func problemList(infos []verification.ProblemInfo) string {
 		}
 		width = max(width, len(names[i]))
 	}
-	lines := make([]string, len(infos))
+	width = max(width, len(channelProblem))
+	lines := make([]string, len(infos), len(infos)+1)
 	for i, p := range infos {
 		lines[i] = fmt.Sprintf("  %-*s  %s", width, names[i], problemSummary(p))
 	}
+	lines = append(lines, fmt.Sprintf("  %-*s  %s", width, channelProblem, "flow-through benchmark (docs/outflow.md): degrees 1, 2, 3"))
 	return strings.Join(lines, "\n")
 }
 

@@ -22,7 +22,7 @@ var channelClosures = []string{"ideal-gas", "ideal-gas-at-pressure"}
 func (o *verifyOptions) channelConfig(cmd *cobra.Command) (verification.Config, error) {
 	var cfg verification.Config
 	flags := cmd.Flags()
-	for _, name := range []string{"flux", "pair", "mesh", "seed", "species", "flavour", "group-s", "regime", "beta", "plot"} {
+	for _, name := range []string{"flux", "pair", "mesh", "seed", "species", "flavour", "group-s", "regime", "plot"} {
 		if flags.Changed(name) {
 			return cfg, fmt.Errorf("--%s does not apply to --problem channel", name)
 		}
@@ -50,14 +50,15 @@ func (o *verifyOptions) channelConfig(cmd *cobra.Command) (verification.Config, 
 		maxIt = 0 // the benchmark's own default
 	}
 	return verification.Config{Problem: channelProblem, Degree: o.degree, Levels: o.levels, Coarse: o.coarse,
-		Method: o.method, MaxIterations: maxIt}, nil
+		Method: o.method, MaxIterations: maxIt, Beta: o.beta}, nil
 }
 
 // runChannel runs the channel benchmark and prints its result.
 func runChannel(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.Config) error {
 	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
 	cc := verification.ChannelConfig{Degree: cfg.Degree, Levels: cfg.Levels, Coarse: cfg.Coarse,
-		Method: cfg.Method, MaxIterations: cfg.MaxIterations, Thermodynamics: o.thermodynamics}
+		Method: cfg.Method, MaxIterations: cfg.MaxIterations, Thermodynamics: o.thermodynamics,
+		SpeciesAugmentation: cfg.Beta}
 	if !o.quiet && d.isTerminal(stderr) {
 		start := time.Now()
 		cc.Progress = func(what string, unknowns int) {
@@ -90,7 +91,7 @@ func runChannel(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.C
 
 // writeChannelTable prints a channel study as a table.
 func writeChannelTable(w interface{ Write([]byte) (int, error) }, st *verification.ChannelStudy) {
-	fmt.Fprintf(w, "channel benchmark, degree %d, %s, Peclet number %.3g, S = %.3g\n", st.Degree, st.Thermodynamics, st.Peclet, st.S)
+	fmt.Fprintf(w, "channel benchmark, degree %d, %s, beta %g, Peclet number %.3g, S = %.3g\n", st.Degree, st.Thermodynamics, st.Beta, st.Peclet, st.S)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "rows\tunknowns\titerations\tconverged\tpatch flux A (mol/(s m))\toutlet x_A\tmass average\tEOS defect\tseconds\t")
 	for l := range st.Rows {

@@ -403,7 +403,7 @@ func TestVerifyPoissonJSON(t *testing.T) {
 func TestWriteChannelTable(t *testing.T) {
 	// The table prints one row per level and the study's summary line
 	// with the values given (made-up numbers: only the layout is tested).
-	st := &verification.ChannelStudy{Degree: 1, Thermodynamics: "ideal-gas-at-pressure", Peclet: 6.25, S: 2.2e-8,
+	st := &verification.ChannelStudy{Degree: 1, Thermodynamics: "ideal-gas-at-pressure", Beta: 0.3, Peclet: 6.25, S: 2.2e-8,
 		Rows: []int{4, 8}, Unknowns: []int{100, 400}, Iterations: []int{40, 41}, Converged: []bool{true, false},
 		PatchFlux: []float64{8.5e-4, 8.6e-4}, OutletA: []float64{0.25, 0.26}, MassAverageLevels: []float64{4e-3, 2e-3},
 		EOSDefect: []float64{3e-2, 1e-2}, Seconds: []float64{1, 2},
@@ -411,12 +411,37 @@ func TestWriteChannelTable(t *testing.T) {
 	var b bytes.Buffer
 	writeChannelTable(&b, st)
 	out := b.String()
-	for _, want := range []string{"ideal-gas-at-pressure, Peclet number 6.25", "EOS defect", "1.000e-02", "false", "truncation 1.500e-03", "patch flux change 1.200e-02"} {
+	for _, want := range []string{"ideal-gas-at-pressure, beta 0.3, Peclet number 6.25", "EOS defect", "1.000e-02", "false", "truncation 1.500e-03", "patch flux change 1.200e-02"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("table lacks %q:\n%s", want, out)
 		}
 	}
 	if n := strings.Count(out, "\n"); n != 5 {
 		t.Errorf("table has %d lines, want 5 (title, header, 2 levels, summary):\n%s", n, out)
+	}
+}
+
+func TestChannelConfigTakesBeta(t *testing.T) {
+	// --beta reaches the channel benchmark (docs/augmentation.md compares
+	// beta on it); the study itself is not run here.
+	for _, tc := range []struct {
+		args []string
+		want float64
+	}{
+		{[]string{"--problem", "channel", "--degree", "2", "--beta", "0.3"}, 0.3},
+		{[]string{"--problem", "channel", "--degree", "1"}, 0},
+		{[]string{"--problem", "channel", "--degree", "1", "--beta", "-1"}, -1},
+	} {
+		cmd, o := newVerifyCmdOptions((&fakeLib{}).deps())
+		if err := cmd.ParseFlags(tc.args); err != nil {
+			t.Fatal(err)
+		}
+		cfg, err := o.channelConfig(cmd)
+		if err != nil {
+			t.Fatalf("%v: %v", tc.args, err)
+		}
+		if cfg.Beta != tc.want {
+			t.Errorf("%v: beta %g, want %g", tc.args, cfg.Beta, tc.want)
+		}
 	}
 }
