@@ -21,8 +21,9 @@ import (
 // exponential by gonum's mat.Exp). Newton's method on (N_1, N_2) matches
 // x(L) to the mouth composition (Taylor & Krishna, Multicomponent Mass
 // Transfer, 1993, ch. 2 and 8, pose the problem this way; the solution
-// method is ours).
-func stefanTube1D(c, L float64, d12, d13, d23 float64, x0, xL [2]float64) (n1, n2 float64) {
+// method is ours). It fails t when Newton does not match x(L) to 1e-13.
+func stefanTube1D(t testing.TB, c, L float64, d12, d13, d23 float64, x0, xL [2]float64) (n1, n2 float64) {
+	t.Helper()
 	end := func(n1, n2 float64) [2]float64 {
 		// dx1/dz = (x1 N2 - x2 N1)/(c D12) - x3 N1/(c D13)
 		// dx2/dz = (x2 N1 - x1 N2)/(c D12) - x3 N2/(c D23), x3 = 1 - x1 - x2
@@ -40,10 +41,11 @@ func stefanTube1D(c, L float64, d12, d13, d23 float64, x0, xL [2]float64) (n1, n
 		}
 	}
 	n1, n2 = 1e-3, 1e-3
+	res := math.Inf(1)
 	for it := 0; it < 100; it++ {
 		r := end(n1, n2)
 		f := [2]float64{r[0] - xL[0], r[1] - xL[1]}
-		if math.Hypot(f[0], f[1]) < 1e-15 {
+		if res = math.Hypot(f[0], f[1]); res < 1e-15 {
 			break
 		}
 		h1, h2 := 1e-7*math.Abs(n1), 1e-7*math.Abs(n2)
@@ -52,6 +54,9 @@ func stefanTube1D(c, L float64, d12, d13, d23 float64, x0, xL [2]float64) (n1, n
 		det := j[0][0]*j[1][1] - j[0][1]*j[1][0]
 		n1 -= (j[1][1]*f[0] - j[0][1]*f[1]) / det
 		n2 -= (-j[1][0]*f[0] + j[0][0]*f[1]) / det
+	}
+	if !(res < 1e-13) {
+		t.Fatalf("1D Stefan tube: Newton left the mouth composition off by %.3g", res)
 	}
 	return n1, n2
 }
@@ -63,7 +68,7 @@ func TestStefanTube1DTextbook(t *testing.T) {
 	// computed fluxes N1 ~ 1.78e-3 and N2 ~ 3.13e-3 mol/(m^2 s) are quoted
 	// from memory; tolerance 0.5 %.
 	c := 99.4e3 / (physics.GasConstant * 328.5)
-	n1, n2 := stefanTube1D(c, 0.238, 8.48e-6, 13.72e-6, 19.91e-6, [2]float64{0.319, 0.528}, [2]float64{0, 0})
+	n1, n2 := stefanTube1D(t, c, 0.238, 8.48e-6, 13.72e-6, 19.91e-6, [2]float64{0.319, 0.528}, [2]float64{0, 0})
 	t.Logf("1D: N1 = %.6g, N2 = %.6g mol/(m^2 s)", n1, n2)
 	for _, tc := range []struct {
 		name      string
@@ -93,7 +98,7 @@ func TestStefanTube2D(t *testing.T) {
 		t.Fatal(err)
 	}
 	c := 99.4e3 / (physics.GasConstant * 328.5)
-	n1, n2 := stefanTube1D(c, 0.238, 8.48e-6, 13.72e-6, 19.91e-6, [2]float64{0.319, 0.528}, [2]float64{xmouth[0], xmouth[1]})
+	n1, n2 := stefanTube1D(t, c, 0.238, 8.48e-6, 13.72e-6, 19.91e-6, [2]float64{0.319, 0.528}, [2]float64{xmouth[0], xmouth[1]})
 	t.Logf("2D: N1 = %.8g, N2 = %.8g; 1D: %.8g, %.8g; %d iterations, air at the mouth %.3g", got[0], got[1], n1, n2, o.Iterations, o.BoundaryFlux["mouth"][2].Molar/w)
 	for i, want := range []float64{n1, n2} {
 		if d := math.Abs(got[i]-want) / want; d > 1e-4 {
@@ -138,7 +143,7 @@ func TestEquationOfStateNormalisation(t *testing.T) {
 			t.Fatal(err)
 		}
 		c := 99.4e3 / (physics.GasConstant * 328.5)
-		n1, n2 := stefanTube1D(c, 0.238, 8.48e-6, 13.72e-6, 19.91e-6, [2]float64{0.319, 0.528}, [2]float64{xmouth[0], xmouth[1]})
+		n1, n2 := stefanTube1D(t, c, 0.238, 8.48e-6, 13.72e-6, 19.91e-6, [2]float64{0.319, 0.528}, [2]float64{xmouth[0], xmouth[1]})
 		var worst float64
 		for i, want := range []float64{n1, n2} {
 			worst = math.Max(worst, math.Abs(o.BoundaryFlux["mouth"][i].Molar/w-want)/want)
