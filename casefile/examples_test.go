@@ -91,4 +91,13 @@ func TestDocumentedExample(t *testing.T) {
 	if len(c.Warnings) != 0 {
 		t.Errorf("warnings %v", c.Warnings)
 	}
+	// The example is the Stefan-tube case file from its title on.
+	file, err := os.ReadFile(filepath.Join("..", "testdata", "cases", "stefan-tube.yaml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := string(file)
+	if k := strings.Index(f, "title:"); k < 0 || f[k:] != s {
+		t.Error("the complete example of docs/case-format.md differs from testdata/cases/stefan-tube.yaml (from title: on)")
+	}
 }
