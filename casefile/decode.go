@@ -288,7 +288,7 @@ func (d *decoder) quantity(n *yaml.Node, path string, k kind) (float64, bool) {
 func (d *decoder) positive(n *yaml.Node, path string, k kind) (float64, bool) {
 	v, ok := d.quantity(n, path, k)
 	if ok && !(v > 0) {
-		d.fail(n, path, "%g is not positive", v)
+		d.fail(n, path, "%s is not positive", asWritten(n, v))
 		return 0, false
 	}
 	return v, ok
@@ -298,7 +298,7 @@ func (d *decoder) positive(n *yaml.Node, path string, k kind) (float64, bool) {
 func (d *decoder) nonNegative(n *yaml.Node, path string, k kind) (float64, bool) {
 	v, ok := d.quantity(n, path, k)
 	if ok && v < 0 {
-		d.fail(n, path, "%g is negative", v)
+		d.fail(n, path, "%s is negative", asWritten(n, v))
 		return 0, false
 	}
 	return v, ok
@@ -373,4 +373,14 @@ func child(n *yaml.Node, key string) *yaml.Node {
 		}
 	}
 	return n
+}
+
+// asWritten returns the scalar of n as the case writes it and, when it
+// carries a unit, its SI value v: "-300 degC (-26.85 in SI units)".
+func asWritten(n *yaml.Node, v float64) string {
+	text := strings.TrimSpace(n.Value)
+	if _, err := strconv.ParseFloat(text, 64); err == nil {
+		return fmt.Sprintf("%.10g", v)
+	}
+	return fmt.Sprintf("%s (%.10g in SI units)", clip(text), v)
 }

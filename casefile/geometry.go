@@ -385,7 +385,7 @@ func (d *decoder) checkLoops(loops []Loop, nodes []loopNodes) bool {
 			}
 			if bad {
 				na, nb := nodes[sa.loop], nodes[sb.loop]
-				d.fail(nb.nodes[sb.i], nb.paths[sb.i], "the segment from (%g, %g) to (%g, %g) meets the segment from (%g, %g) to (%g, %g) that starts at %s (line %d); the boundary must not cross or touch itself",
+				d.fail(nb.nodes[sb.i], nb.paths[sb.i], "the segment from (%.6g, %.6g) to (%.6g, %.6g) meets the segment from (%.6g, %.6g) to (%.6g, %.6g) that starts at %s (line %d); the boundary must not cross or touch itself",
 					b0[0], b0[1], b1[0], b1[1], a0[0], a0[1], a1[0], a1[1], na.paths[sa.i], na.nodes[sa.i].Line)
 				return false
 			}

@@ -105,7 +105,7 @@ func TestParseErrors(t *testing.T) {
 		{name: "molar mass unit", edit: [][2]string{{"molar_mass: 32 g/mol", "molar_mass: 32 m"}},
 			at: "32 m", col: true, path: "species[1].molar_mass", msg: `unit "m" has dimension length, want mass/amount (e.g. kg/mol)`},
 		{name: "negative molar mass", edit: [][2]string{{"molar_mass: 28 g/mol", "molar_mass: -28 g/mol"}},
-			at: "-28 g/mol", col: true, path: "species[2].molar_mass", msg: "-0.028 is not positive"},
+			at: "-28 g/mol", col: true, path: "species[2].molar_mass", msg: "-28 g/mol (-0.028 in SI units) is not positive"},
 		{name: "zero diffusivity", edit: [][2]string{{"B: {C: 2e-5 m^2/s}", "B: {C: 0}"}},
 			at: "C: 0}", path: "diffusivities.B.C", msg: "0 is not positive"},
 		{name: "diffusivity unit", edit: [][2]string{{"C: 2e-5 m^2/s}", "C: 2e-5 m/s}"}},
