@@ -395,7 +395,7 @@ func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
 	}
 	f, err := os.CreateTemp(dir, "."+base+".tmp-*")
 	if err != nil {
-		return err
+		return fmt.Errorf("writing %s: %w", path, errors.Unwrap(err))
 	}
 	tmp := f.Name()
 	defer func() {
@@ -406,19 +406,22 @@ func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
 	}()
 	bw := bufio.NewWriterSize(f, 1<<16)
 	if err := write(bw); err != nil {
-		return fmt.Errorf("%s: %w", path, err)
+		return fmt.Errorf("writing %s: %w", path, err)
 	}
 	if err := bw.Flush(); err != nil {
-		return err
+		return fmt.Errorf("writing %s: %w", path, err)
 	}
 	if err := f.Chmod(0o644); err != nil {
-		return err
+		return fmt.Errorf("writing %s: %w", path, err)
 	}
 	if err := f.Sync(); err != nil {
-		return err
+		return fmt.Errorf("writing %s: %w", path, err)
 	}
 	if err := f.Close(); err != nil {
-		return err
+		return fmt.Errorf("writing %s: %w", path, err)
 	}
-	return os.Rename(tmp, path)
+	if err := os.Rename(tmp, path); err != nil {
+		return fmt.Errorf("writing %s: %w", path, err)
+	}
+	return nil
 }

@@ -43,3 +43,30 @@ func TestMeshRejectsBadCase(t *testing.T) {
 		t.Errorf("error line %q does not name the file and the key", line)
 	}
 }
+
+func TestMeshInspectsAMeshFile(t *testing.T) {
+	// testdata/cases/cavity.mesh is a 10 x 10 square (file units) cut into
+	// four triangles round its centre: 5 vertices, 4 boundary edges, area
+	// 100, angles 45 and 90 degrees.
+	stdout, stderr, err := execute(t, (&fakeLib{}).deps(), "mesh", filepath.Join("..", "..", "testdata", "cases", "cavity.mesh"))
+	if err != nil {
+		t.Fatalf("%v\n%s", err, stderr)
+	}
+	for _, want := range []string{"5 vertices, 4 triangles", "(4 on the boundary)", "area 100 square file units", "angles 45.00 to 90.00 degrees", "bottom 1, left 1, lid 1, right 1"} {
+		if !strings.Contains(stdout, want) {
+			t.Errorf("output lacks %q:\n%s", want, stdout)
+		}
+	}
+}
+
+func TestMeshExportNamesTheTarget(t *testing.T) {
+	path := writeCase(t, tinyCase)
+	target := filepath.Join(t.TempDir(), "absent", "box.mesh")
+	_, stderr, err := execute(t, (&fakeLib{}).deps(), "mesh", path, "--out", target)
+	if err == nil {
+		t.Fatal("wrote into a directory that does not exist")
+	}
+	if line := errorLine(t, stderr); !strings.Contains(line, "writing "+target) || strings.Contains(line, ".tmp-") {
+		t.Errorf("error line %q should name %s and not the temporary file", line, target)
+	}
+}
