@@ -1,6 +1,7 @@
 package simulate
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -81,26 +82,34 @@ func TestPlanePoiseuilleExact(t *testing.T) {
 	// inlet and outflow at the outlet (formulation note, section 10 item 4)
 	// instead of compositions at both ends: measured velocity 3.9e-8,
 	// pressure 2.5e-8, mole fractions 4.2e-9.
-	for _, tc := range []struct{ name, inlet, outlet string }{
-		{"reservoirs", "", ""},
+	//
+	// Taylor–Hood P3/P2 and P4/P3 (degrees 2 and 3) contain the exact
+	// solution too and must reproduce it as well.
+	for _, tc := range []struct {
+		name, inlet, outlet string
+		degree              int
+	}{
+		{"reservoirs", "", "", 1},
+		{"reservoirs", "", "", 2},
+		{"reservoirs", "", "", 3},
 		{"outflow",
 			"    species: {type: composition, mole_fractions: {A: 0.2, B: 0.5, C: 0.3}}\n  outlet:",
-			"    species: {type: convective-inflow, mole_fractions: {A: 0.2, B: 0.5, C: 0.3}}\n  outlet:"},
+			"    species: {type: convective-inflow, mole_fractions: {A: 0.2, B: 0.5, C: 0.3}}\n  outlet:", 1},
 	} {
-		t.Run(tc.name, func(t *testing.T) { poiseuille(t, tc.inlet, tc.outlet) })
+		t.Run(fmt.Sprintf("%s/k=%d", tc.name, tc.degree), func(t *testing.T) { poiseuille(t, tc.inlet, tc.outlet, tc.degree) })
 	}
 }
 
-func poiseuille(t *testing.T, from, to string) {
+func poiseuille(t *testing.T, from, to string, degree int) {
 	const tol = 1e-6
 	const path = "../testdata/cases/poiseuille.yaml"
-	var edits [][2]string
+	edits := [][2]string{{"degree: 1", fmt.Sprintf("degree: %d", degree)}}
 	if from != "" {
-		edits = [][2]string{{from, to}, {
+		edits = append(edits, [2]string{from, to}, [2]string{
 			"    velocity: {type: open, pressure: 0 Pa}\n    species: {type: composition, mole_fractions: {A: 0.2, B: 0.5, C: 0.3}}",
-			"    velocity: {type: open, pressure: 0 Pa}\n    species: outflow"}}
+			"    velocity: {type: open, pressure: 0 Pa}\n    species: outflow"})
 	}
-	_, o := solved(t, path, editedCase(t, path, edits...))
+	s, o := solved(t, path, editedCase(t, path, edits...))
 	const (
 		U, H, L, eta = 0.01, 1e-3, 4e-3, 1.8e-5
 	)
@@ -121,7 +130,7 @@ func poiseuille(t *testing.T, from, to string) {
 			worstX = math.Max(worstX, math.Abs(pt.MoleFraction[i]-want))
 		}
 	}
-	t.Logf("largest relative errors: velocity %.2g, pressure %.2g; mole fractions %.2g", worstV, worstP, worstX)
+	t.Logf("degree %d, %d unknowns: largest relative errors: velocity %.2g, pressure %.2g; mole fractions %.2g", degree, s.Unknowns(), worstV, worstP, worstX)
 	if !(worstV < tol && worstP < tol) {
 		t.Errorf("velocity error %.3g, pressure error %.3g: want both < %g", worstV, worstP, tol)
 	}
