@@ -312,6 +312,9 @@ type integerTicks struct{}
 
 const integerTicksAll = 12
 
+// integerTicksLabelled is the most labelled ticks of a long count axis.
+const integerTicksLabelled = 8
+
 // Ticks implements plot.Ticker.
 func (integerTicks) Ticks(min, max float64) []plot.Tick {
 	var out []plot.Tick
@@ -321,15 +324,25 @@ func (integerTicks) Ticks(min, max float64) []plot.Tick {
 		}
 		return out
 	}
-	const tol = 1e-9 // relative distance from a whole number still read as one
-	for _, t := range (plot.DefaultTicks{}).Ticks(min, max) {
-		if t.Label == "" {
-			out = append(out, t)
-			continue
+	// Labels every step of 1, 2 or 5 times a power of ten, the smallest
+	// that leaves at most integerTicksLabelled of them, and unlabelled
+	// ticks at the whole numbers between, thinned to steps of step/5 or
+	// step/2 (common practice for axis ticks).
+	step := 1.0
+	for k := 0; (max-min)/step > integerTicksLabelled; k++ {
+		step = []float64{1, 2, 5}[k%3] * math.Pow(10, float64(k/3))
+	}
+	minor := step / 5
+	if math.Mod(step, 5) != 0 {
+		minor = step / 2
+	}
+	minor = math.Max(1, minor)
+	for v := math.Ceil(min/minor)*minor + 0; v <= max; v += minor {
+		t := plot.Tick{Value: v}
+		if math.Mod(v, step) == 0 {
+			t.Label = strconv.FormatFloat(v, 'f', -1, 64)
 		}
-		if r := math.Round(t.Value); math.Abs(t.Value-r) <= tol*math.Max(1, math.Abs(r)) {
-			out = append(out, plot.Tick{Value: r, Label: strconv.FormatFloat(r, 'f', -1, 64)})
-		}
+		out = append(out, t)
 	}
 	return out
 }

@@ -172,7 +172,9 @@ func TestTickers(t *testing.T) {
 		{"decades", 1e-6, 10, true, "1e-6 1e-5 1e-4 0.001 0.01 0.1 1 10"},
 		{"short count axis: every integer", 0, 7, false, "0 1 2 3 4 5 6 7"},
 		{"fractional ends", -0.4, 3.6, false, "0 1 2 3"},
-		{"long count axis: default whole numbers", 0, 59, false, "0 25 50"}, // steps as gonum's DefaultTicks chooses them
+		{"long count axis: steps of 1, 2 or 5 times a power of ten", 0, 59, false, "0 10 20 30 40 50"},
+		{"twenty iterations", 1, 19, false, "5 10 15"},
+		{"hundreds", 3, 1234, false, "200 400 600 800 1000 1200"},
 	} {
 		if got := strings.Join(labels(tc.min, tc.max, tc.decade), " "); got != tc.want {
 			t.Errorf("%s: labels %q, want %q", tc.name, got, tc.want)
