@@ -428,10 +428,13 @@ const (
 	FieldDensity       Field = "density"
 )
 
-// AllFields lists every output field, the default selection.
-var AllFields = []Field{FieldVelocity, FieldPressure, FieldMassFlux, FieldMolarFlux,
-	FieldDiffusiveFlux, FieldPotential, FieldConcentration, FieldMoleFraction,
-	FieldMassFraction, FieldDensity}
+// AllFields lists every output field, the default selection, in the order
+// of the output files' columns: mole fractions, concentrations,
+// potentials, velocity, pressure and molar fluxes first, then mass fluxes,
+// diffusive fluxes, mass fractions and density.
+var AllFields = []Field{FieldMoleFraction, FieldConcentration, FieldPotential,
+	FieldVelocity, FieldPressure, FieldMolarFlux, FieldMassFlux,
+	FieldDiffusiveFlux, FieldMassFraction, FieldDensity}
 
 // Output selects what a run writes.
 type Output struct {

@@ -205,7 +205,7 @@ func TestParseErrors(t *testing.T) {
 		{name: "probe of zero length", edit: [][2]string{{"viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\noutput: {probes: [{name: p, from: [0, 0], to: [0 m, 0 mm]}]}"}},
 			at: "[0 m, 0 mm]", col: true, path: "output.probes[0].to", msg: "the end point equals the start point"},
 		{name: "unknown field", edit: [][2]string{{"viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\noutput: {fields: [velocity, vorticity]}"}},
-			at: "vorticity", col: true, path: "output.fields[1]", msg: `"vorticity" is not one of velocity,`},
+			at: "vorticity", col: true, path: "output.fields[1]", msg: `"vorticity" is not one of mole-fraction,`},
 		{name: "no composition anywhere", edit: [][2]string{
 			{"    species:\n      type: composition\n      mole_fractions: {A: 0.5, B: 0.3, C: 0.2}\n      impermeable: [C]\n", ""},
 			{"    species:\n      type: composition\n      mole_fractions: {A: 0.1, B: 0.1, C: 0.8}\n", ""}},

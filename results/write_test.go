@@ -265,8 +265,8 @@ func TestWriteProbeCSV(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	header := "s,x,y,vx,vy,p,J_A_x,J_A_y,J_B_x,J_B_y,N_A_x,N_A_y,N_B_x,N_B_y,j_A_x,j_A_y,j_B_x,j_B_y," +
-		"mu_A,mu_B,c_A,c_B,x_A,x_B,w_A,w_B,density"
+	header := "s,x,y,x_A,x_B,c_A,c_B,mu_A,mu_B,vx,vy,p,N_A_x,N_A_y,N_B_x,N_B_y,J_A_x,J_A_y,J_B_x,J_B_y," +
+		"j_A_x,j_A_y,j_B_x,j_B_y,w_A,w_B,density"
 	if got := strings.Join(rows[0], ","); got != header {
 		t.Errorf("header\n%s\nwant\n%s", got, header)
 	}

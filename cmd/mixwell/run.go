@@ -77,7 +77,8 @@ Files written into DIR (each written completely or not at all):
                     balances, scales and groups, method, timings, peak
                     memory, iteration history, list of files
   probe-NAME.csv    fields along each probe line: s,x,y, then the
-                    selected fields (vx, vy, p, x_NAME, ...)
+                    selected fields (x_NAME, c_NAME, mu_NAME, vx, vy,
+                    p, N_NAME_x, N_NAME_y, ...)
   x_NAME.png        colour map of each mole fraction
   velocity.png      speed with arrows
   probe-NAME.png    mole fractions along each probe line

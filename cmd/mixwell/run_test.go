@@ -138,8 +138,8 @@ func TestRunWritesOutputs(t *testing.T) {
 		t.Fatal(err)
 	}
 	lines := strings.Split(strings.TrimSpace(string(csv)), "\n")
-	const header = "s,x,y,vx,vy,p,J_A_x,J_A_y,J_B_x,J_B_y,N_A_x,N_A_y,N_B_x,N_B_y,j_A_x,j_A_y,j_B_x,j_B_y," +
-		"mu_A,mu_B,c_A,c_B,x_A,x_B,w_A,w_B,density"
+	const header = "s,x,y,x_A,x_B,c_A,c_B,mu_A,mu_B,vx,vy,p,N_A_x,N_A_y,N_B_x,N_B_y,J_A_x,J_A_y,J_B_x,J_B_y," +
+		"j_A_x,j_A_y,j_B_x,j_B_y,w_A,w_B,density"
 	if lines[0] != header {
 		t.Errorf("probe header\n%s\nwant\n%s", lines[0], header)
 	}
