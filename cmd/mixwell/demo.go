@@ -75,7 +75,7 @@ Start a case of your own from the copy:
 				})
 				return []string{demoCopy}, err
 			}
-			return solveCase(cmd, d, c, data, time.Since(start), &o, copyCase)
+			return jsonError(cmd, &o, solveCase(cmd, d, c, data, time.Since(start), &o, copyCase))
 		},
 	}
 	addSolveFlags(cmd, &o, "mixwell-demo", "results directory `DIR` (created when missing)")

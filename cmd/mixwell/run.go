@@ -66,7 +66,9 @@ when stderr is a terminal: iteration, residual, change of the state,
 mass-average defect ||v - sum J/rho|| (relative to the largest of ||v|| and ||J_i/rho||) and elapsed time. --quiet
 leaves it out; --log-json prints one JSON object per iteration instead
 (keys iteration, residual, change, mass_average, clipped,
-elapsed_seconds), also into pipes and files.
+elapsed_seconds), also into pipes and files; its warnings and a final
+error are then JSON objects too, {"warning": "..."} and {"error": "..."},
+so that every line of stderr is one JSON object.
 
 Files written into DIR (each written completely or not at all):
   fields.vtu        every field selected by output.fields (VTK XML), on
@@ -102,9 +104,9 @@ line and a non-zero exit status.`,
 			start := time.Now()
 			data, c, err := loadCase(args[0])
 			if err != nil {
-				return err
+				return jsonError(cmd, &o, err)
 			}
-			return solveCase(cmd, d, c, data, time.Since(start), &o, nil)
+			return jsonError(cmd, &o, solveCase(cmd, d, c, data, time.Since(start), &o, nil))
 		},
 	}
 	addSolveFlags(cmd, &o, "", "results directory `DIR` (required; created when missing)")
@@ -205,6 +207,30 @@ func checkOutDir(dir string) error {
 	}
 }
 
+// warn prints a warning to stderr: a "Warning: " line, or a JSON object
+// {"warning": ...} under --log-json.
+func warn(stderr io.Writer, o *solveOptions, msg string) {
+	if o.logJSON {
+		line, _ := json.Marshal(map[string]string{"warning": msg})
+		fmt.Fprintf(stderr, "%s\n", line)
+		return
+	}
+	fmt.Fprintf(stderr, "Warning: %s\n", msg)
+}
+
+// jsonError prints err as a JSON object {"error": ...} to stderr under
+// --log-json, instead of cobra's "Error: " line, and returns it for the
+// exit status.
+func jsonError(cmd *cobra.Command, o *solveOptions, err error) error {
+	if err == nil || !o.logJSON {
+		return err
+	}
+	cmd.SilenceErrors = true
+	line, _ := json.Marshal(map[string]string{"error": oneLine(err).Error()})
+	fmt.Fprintf(cmd.ErrOrStderr(), "%s\n", line)
+	return err
+}
+
 // solveCase prepares, solves and writes case c, read from data in load
 // time. before, when not nil, writes extra files into the output directory
 // (created by then) after the solve and returns their names.
@@ -228,7 +254,7 @@ func solveCase(cmd *cobra.Command, d deps, c *casefile.Case, data []byte, load t
 	warnings := make([]string, len(c.Warnings))
 	for i, w := range c.Warnings {
 		warnings[i] = w.String()
-		fmt.Fprintf(stderr, "Warning: %s\n", w)
+		warn(stderr, o, warnings[i])
 	}
 
 	prog := newProgress(stderr, o, d.isTerminal(stderr))
@@ -248,7 +274,7 @@ func solveCase(cmd *cobra.Command, d deps, c *casefile.Case, data []byte, load t
 		return oneLine(serr)
 	}
 	for _, w := range outcome.Warnings {
-		fmt.Fprintf(stderr, "Warning: %s\n", w)
+		warn(stderr, o, w)
 	}
 	warnings = append(warnings, outcome.Warnings...)
 	shown := len(warnings)
@@ -279,7 +305,7 @@ func solveCase(cmd *cobra.Command, d deps, c *casefile.Case, data []byte, load t
 		return oneLine(err)
 	}
 	for _, w := range sum.Warnings[shown:] {
-		fmt.Fprintf(stderr, "Warning: %s\n", w)
+		warn(stderr, o, w)
 	}
 	if err := report(stdout, sum, o.out); err != nil {
 		return fmt.Errorf("writing the report: %w", err)

@@ -295,3 +295,43 @@ func TestBytesString(t *testing.T) {
 		}
 	}
 }
+
+func TestRunLogJSONKeepsStderrJSON(t *testing.T) {
+	// Under --log-json every line of stderr is one JSON object: the
+	// iterations, the warnings ({"warning": ...}) and the final error
+	// ({"error": ...}), for a run that does not converge and for a case
+	// that cannot be read.
+	for _, tc := range []struct {
+		name, text string
+		keys       []string // keys that some line must have
+	}{
+		{"not converged, with a warning", tinyCase + "solver: {method: picard, anderson_depth: 4, max_iterations: 1, tolerance: 1e-14}\n",
+			[]string{"iteration", "warning", "error"}},
+		{"bad case", tinyCase + "solver: {tolerance: 2}\n", []string{"error"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			path := writeCase(t, tc.text)
+			out := filepath.Join(filepath.Dir(path), "out")
+			_, stderr, err := execute(t, (&fakeLib{}).deps(), "run", path, "--out", out, "--log-json")
+			if err == nil {
+				t.Fatal("run succeeded")
+			}
+			seen := map[string]bool{}
+			for _, line := range strings.Split(strings.TrimSpace(stderr), "\n") {
+				var rec map[string]any
+				if err := json.Unmarshal([]byte(line), &rec); err != nil {
+					t.Errorf("stderr line %q is not a JSON object: %v", line, err)
+					continue
+				}
+				for k := range rec {
+					seen[k] = true
+				}
+			}
+			for _, k := range tc.keys {
+				if !seen[k] {
+					t.Errorf("no stderr line has key %q:\n%s", k, stderr)
+				}
+			}
+		})
+	}
+}
