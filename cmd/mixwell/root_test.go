@@ -62,8 +62,11 @@ func TestProgressLine(t *testing.T) {
 		took                    time.Duration
 		want                    string
 	}{
-		{0, 4, 289, 1234 * time.Millisecond, "level 1/4 solved (289 unknowns, 1.2 s)"},
-		{3, 4, 61234, 65 * time.Second, "level 4/4 solved (61234 unknowns, 65.0 s)"},
+		// Work shares 1/85, 5/85, 21/85, 85/85 of 20 characters.
+		{0, 4, 289, 1234 * time.Millisecond, "[....................] level 1/4 solved (289 unknowns, 1.2 s)"},
+		{1, 4, 1089, 2 * time.Second, "[#...................] level 2/4 solved (1089 unknowns, 2.0 s)"},
+		{2, 4, 4225, 8 * time.Second, "[#####...............] level 3/4 solved (4225 unknowns, 8.0 s)"},
+		{3, 4, 61234, 65 * time.Second, "[####################] level 4/4 solved (61234 unknowns, 65.0 s)"},
 	} {
 		if got := progressLine(tc.level, tc.levels, tc.unknowns, tc.took); got != tc.want {
 			t.Errorf("progressLine(%d, %d, %d, %v) = %q, want %q", tc.level, tc.levels, tc.unknowns, tc.took, got, tc.want)

@@ -99,7 +99,9 @@ Stokes–Onsager–Stefan–Maxwell problem (sosm) adds flavour, species, S, bet
 method, iterations (nonlinear iterations per level, 1 for the frozen
 layer), conservation (largest element-wise species conservation defect per
 level) and mass_average (||v - sum J/rho|| relative to the largest of ||v|| and ||J_i/rho||, per level). When stderr
-is a terminal, a line per solved level is printed there unless --quiet.`,
+is a terminal, a progress line per solved level is printed there unless
+--quiet: a bar of the work done (counted in unknowns), the level and its
+size and time.`,
 		Example: `  # Lagrange elements of degree 3, table on stdout
   mixwell verify --problem poisson --degree 3 --levels 4
 
@@ -338,7 +340,21 @@ func runVerify(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.Co
 // progressLine reports that level (counted from 0) of levels, with the
 // given number of unknowns, has been solved, and how long it took.
 func progressLine(level, levels, unknowns int, took time.Duration) string {
-	return fmt.Sprintf("level %d/%d solved (%d unknowns, %.1f s)", level+1, levels, unknowns, took.Seconds())
+	// The bar counts unknowns, not levels: each level costs several times
+	// the one before, so the share of work done is about the share of the
+	// unknowns solved (the levels are uniform refinements, 4x each).
+	done, all := 0.0, 0.0
+	for l := 0; l < levels; l++ {
+		w := math.Pow(4, float64(l))
+		all += w
+		if l <= level {
+			done += w
+		}
+	}
+	const width = 20
+	n := int(math.Round(width * done / all))
+	bar := strings.Repeat("#", n) + strings.Repeat(".", width-n)
+	return fmt.Sprintf("[%s] level %d/%d solved (%d unknowns, %.1f s)", bar, level+1, levels, unknowns, took.Seconds())
 }
 
 func registerVerifyCompletions(cmd *cobra.Command, d deps) {

@@ -277,8 +277,8 @@ func TestVerifyProgress(t *testing.T) {
 		t.Fatalf("want 3 progress lines, got:\n%s", stderr)
 	}
 	for i, line := range lines {
-		want := fmt.Sprintf("level %d/3 solved (%d unknowns, ", i+1, 10<<(2*i))
-		if !strings.HasPrefix(line, want) || !strings.HasSuffix(line, " s)") {
+		want := fmt.Sprintf("] level %d/3 solved (%d unknowns, ", i+1, 10<<(2*i))
+		if !strings.HasPrefix(line, "[") || !strings.Contains(line, want) || !strings.HasSuffix(line, " s)") {
 			t.Errorf("progress line %d = %q, want %q...s)", i, line, want)
 		}
 	}
