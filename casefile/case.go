@@ -400,8 +400,9 @@ type Solver struct {
 	MaxIterations int // default 60
 	// AndersonDepth is the Anderson mixing depth (default 10).
 	AndersonDepth int
-	// SpeciesAugmentation is beta of the one-sided augmentation (default 1,
-	// in units of the transport term; 0 switches it off).
+	// SpeciesAugmentation is beta of the one-sided augmentation, in units
+	// of the transport term (0 switches it off), or AutoSpeciesAugmentation
+	// (the default) to let the solver choose it from the boundary data.
 	SpeciesAugmentation float64
 	// Augmentation is gamma of the symmetric augmentation (default 1, in
 	// units of eta_ref/L^2; positive).
@@ -427,6 +428,12 @@ const (
 	FieldMassFraction  Field = "mass-fraction"
 	FieldDensity       Field = "density"
 )
+
+// AutoSpeciesAugmentation is the value of Solver.SpeciesAugmentation that
+// leaves beta to the solver: physics.FlowThroughSpeciesAugmentation when
+// the case has an outflow boundary, physics.ClosedSpeciesAugmentation
+// otherwise (the key's default, written "auto").
+const AutoSpeciesAugmentation = -1.0
 
 // AllFields lists every output field, the default selection, in the order
 // of the output files' columns: mole fractions, concentrations,

@@ -613,7 +613,7 @@ func (d *decoder) initial(n *yaml.Node, sp *speciesSet, in *Initial) {
 func (d *decoder) solver(n *yaml.Node, nSpecies int, s *Solver) {
 	const path = "solver"
 	*s = Solver{Method: Anderson, Tolerance: 1e-10, MaxIterations: 60, AndersonDepth: 10,
-		SpeciesAugmentation: 1, Augmentation: 1, Update: PotentialUpdate, MoleFractionFloor: 1e-6}
+		SpeciesAugmentation: AutoSpeciesAugmentation, Augmentation: 1, Update: PotentialUpdate, MoleFractionFloor: 1e-6}
 	if n == nil {
 		return
 	}
@@ -649,7 +649,17 @@ func (d *decoder) solver(n *yaml.Node, nSpecies int, s *Solver) {
 		}
 	}
 	if v := m.get("species_augmentation"); v != nil {
-		s.SpeciesAugmentation, _ = d.nonNegative(v, join(path, "species_augmentation"), kindNumber)
+		text := strings.TrimSpace(v.Value)
+		switch {
+		case v.Kind == yaml.ScalarNode && text == "auto":
+			s.SpeciesAugmentation = AutoSpeciesAugmentation
+		case v.Kind == yaml.ScalarNode && text != "" && !strings.ContainsAny(text[:1], "0123456789.+-"):
+			d.fail(v, join(path, "species_augmentation"), "%q is neither auto nor a number >= 0", clip(text))
+		default:
+			if b, ok := d.nonNegative(v, join(path, "species_augmentation"), kindNumber); ok {
+				s.SpeciesAugmentation = b
+			}
+		}
 	}
 	if v := m.get("augmentation"); v != nil {
 		if g, ok := d.positive(v, join(path, "augmentation"), kindNumber); ok {

@@ -200,6 +200,10 @@ func TestParseErrors(t *testing.T) {
 			at: "40}", col: true, path: "geometry.meshing.min_angle", msg: "40 degrees is too large"},
 		{name: "floor too large", edit: [][2]string{{"viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\nsolver: {mole_fraction_floor: 0.4}"}},
 			at: "0.4}", col: true, path: "solver.mole_fraction_floor", msg: "3 species times the floor must stay below 1"},
+		{name: "species augmentation word", edit: [][2]string{{"viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\nsolver: {species_augmentation: often}"}},
+			at: "often}", col: true, path: "solver.species_augmentation", msg: `"often" is neither auto nor a number >= 0`},
+		{name: "negative species augmentation", edit: [][2]string{{"viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\nsolver: {species_augmentation: -1}"}},
+			at: "-1}", col: true, path: "solver.species_augmentation", msg: "-1 is negative"},
 		{name: "unknown method", edit: [][2]string{{"viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\nsolver: {method: newton}"}},
 			at: "newton}", col: true, path: "solver.method", msg: `"newton" is not one of anderson, picard, newton-krylov`},
 		{name: "probe of zero length", edit: [][2]string{{"viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\noutput: {probes: [{name: p, from: [0, 0], to: [0 m, 0 mm]}]}"}},
@@ -357,7 +361,7 @@ func TestParseDefaults(t *testing.T) {
 		t.Fatal(err)
 	}
 	wantSolver := casefile.Solver{Method: casefile.Anderson, Tolerance: 1e-10, MaxIterations: 60, AndersonDepth: 10,
-		SpeciesAugmentation: 1, Augmentation: 1, Update: casefile.PotentialUpdate, MoleFractionFloor: 1e-6}
+		SpeciesAugmentation: casefile.AutoSpeciesAugmentation, Augmentation: 1, Update: casefile.PotentialUpdate, MoleFractionFloor: 1e-6}
 	if c.Solver != wantSolver {
 		t.Errorf("solver defaults %+v, want %+v", c.Solver, wantSolver)
 	}

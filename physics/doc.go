@@ -106,7 +106,9 @@
 //     instead of 3 and ||v - sum J/rho|| / ||v|| was 6.4e-3; with beta = 1
 //     the rate was 3.0 and the defect 1.5e-5. It also makes the Picard map
 //     contractive (see SolveNonlinear). The system is then non-symmetric,
-//     which the sparse LU handles.
+//     which the sparse LU handles. Flow-through cases take the smaller
+//     FlowThroughSpeciesAugmentation, because there its residual
+//     accumulates along the flow (docs/augmentation.md).
 //
 // Boundary conditions are given per boundary tag (BoundaryCondition):
 // velocity given, slip (axis-parallel segments) or traction; per species a

@@ -265,7 +265,7 @@ func newSummary(r *Run) *Summary {
 			Quadrature:          c.Discretisation.Quadrature,
 			Thermodynamics:      string(c.Thermodynamics.Model),
 			Viscosity:           string(c.Viscosity.Model),
-			SpeciesAugmentation: Number(c.Solver.SpeciesAugmentation),
+			SpeciesAugmentation: Number(speciesAugmentation(o)),
 			Augmentation:        Number(c.Solver.Augmentation),
 			MoleFractionFloor:   Number(c.Solver.MoleFractionFloor),
 		},
@@ -391,4 +391,14 @@ func mapSize(w, h float64) (width, height int) {
 	width = int(math.Round(math.Max(w*s, 240) + padW))
 	height = int(math.Round(math.Max(h*s, 160) + padH))
 	return width, height
+}
+
+// speciesAugmentation is the beta the solve used: the prepared problem's,
+// or the case's when there is no prepared problem (an outcome built by
+// hand).
+func speciesAugmentation(o *simulate.Outcome) float64 {
+	if o.Setup.Problem != nil {
+		return o.Setup.Problem.SpeciesAugmentation
+	}
+	return o.Setup.Case.Solver.SpeciesAugmentation
 }

@@ -241,6 +241,14 @@ func (s *Setup) pose() error {
 		flowThrough = flowThrough || b.Species.Kind == casefile.Outflow
 	}
 	s.relativeComposition = levelInvariant && flowThrough
+	// beta "auto": smaller in flow-through cases, where its residual
+	// accumulates along the flow (physics.FlowThroughSpeciesAugmentation).
+	if c.Solver.SpeciesAugmentation < 0 {
+		p.SpeciesAugmentation = physics.ClosedSpeciesAugmentation
+		if flowThrough {
+			p.SpeciesAugmentation = physics.FlowThroughSpeciesAugmentation
+		}
+	}
 	for _, b := range c.Boundaries {
 		tag, ok := s.tagOf[b.Name]
 		if !ok {

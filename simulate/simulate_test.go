@@ -282,3 +282,38 @@ func TestLiquidObstacleCase(t *testing.T) {
 		t.Errorf("mass-average defect %.3g, want < 1e-2", o.MassAverage)
 	}
 }
+
+func TestSpeciesAugmentationAuto(t *testing.T) {
+	// species_augmentation "auto" (the default) gives beta = 0.3 when the
+	// case has an outflow boundary and 1 otherwise (docs/augmentation.md);
+	// a given value is kept.
+	const path = "../testdata/cases/poiseuille.yaml"
+	toOutflow := [][2]string{
+		{"    species: {type: composition, mole_fractions: {A: 0.2, B: 0.5, C: 0.3}}\n  outlet:",
+			"    species: {type: convective-inflow, mole_fractions: {A: 0.2, B: 0.5, C: 0.3}}\n  outlet:"},
+		{"    velocity: {type: open, pressure: 0 Pa}\n    species: {type: composition, mole_fractions: {A: 0.2, B: 0.5, C: 0.3}}",
+			"    velocity: {type: open, pressure: 0 Pa}\n    species: outflow"},
+	}
+	for _, tc := range []struct {
+		name  string
+		edits [][2]string
+		extra string
+		want  float64
+	}{
+		{"reservoirs at both ends", nil, "", physics.ClosedSpeciesAugmentation},
+		{"outflow", toOutflow, "", physics.FlowThroughSpeciesAugmentation},
+		{"outflow, auto written out", toOutflow, "solver: {species_augmentation: auto}\n", physics.FlowThroughSpeciesAugmentation},
+		{"outflow, given", toOutflow, "solver: {species_augmentation: 0.5}\n", 0.5},
+		{"reservoirs, switched off", nil, "solver: {species_augmentation: 0}\n", 0},
+	} {
+		data := editedCase(t, path, tc.edits...) + tc.extra
+		s := prepared(t, path, data)
+		if got := s.Problem.SpeciesAugmentation; got != tc.want {
+			t.Errorf("%s: beta %g, want %g", tc.name, got, tc.want)
+		}
+	}
+	if physics.FlowThroughSpeciesAugmentation != 0.3 || physics.ClosedSpeciesAugmentation != 1 {
+		t.Errorf("defaults %g and %g differ from the measured choice 0.3 and 1 (docs/augmentation.md)",
+			physics.FlowThroughSpeciesAugmentation, physics.ClosedSpeciesAugmentation)
+	}
+}

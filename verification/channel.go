@@ -71,8 +71,8 @@ type ChannelConfig struct {
 	// (empty: ideal-gas; docs/outflow.md compares the two).
 	Thermodynamics string
 	// SpeciesAugmentation is the one-sided species augmentation beta
-	// (0: the case default 1; negative: none, remedy (a) of
-	// docs/augmentation.md).
+	// (0: the case default, physics.FlowThroughSpeciesAugmentation here;
+	// negative: none, remedy (a) of docs/augmentation.md).
 	SpeciesAugmentation float64
 }
 
@@ -328,7 +328,7 @@ func RunChannel(cfg ChannelConfig) (*ChannelStudy, error) {
 			return nil, err
 		}
 		st.S = o.Setup.Scales.S()
-		st.Beta = o.Setup.Case.Solver.SpeciesAugmentation
+		st.Beta = o.Setup.Problem.SpeciesAugmentation
 		st.Rows = append(st.Rows, rows)
 		st.H = append(st.H, 1/float64(rows))
 		st.Unknowns = append(st.Unknowns, o.Setup.Unknowns())

@@ -34,7 +34,7 @@ func sosmDefaultS(flavour string) float64 {
 }
 
 // sosmDefaultBeta is the default one-sided species augmentation.
-const sosmDefaultBeta = 1.0
+const sosmDefaultBeta = physics.ClosedSpeciesAugmentation
 
 // sosmEta and sosmLambda are the scaled shear viscosity and lambda =
 // zeta - 2 eta / 3 of the manufactured solutions (our own O(1) choice).
