@@ -203,9 +203,9 @@ func TestChannelPatchCase(t *testing.T) {
 	// everywhere through the outflow boundary, and carry out of the
 	// outlet the A that entered plus the 2e-3 mol/(m^2 s) x 2 mm released
 	// by the patch (the case's own data). Measured (2026-12-02) on the
-	// case's own mesh: 23 Anderson iterations, mass-average defect
-	// 2.3e-6; with the plain ideal gas the iteration diverged after 4
-	// iterations (docs/outflow.md).
+	// case's own mesh: 22 Anderson iterations with beta auto = 0.3 (23
+	// with beta = 1), mass-average defect 2.3e-6; with the plain ideal gas
+	// the iteration diverged after 4 iterations (docs/outflow.md).
 	if testing.Short() {
 		t.Skip("short mode")
 	}
