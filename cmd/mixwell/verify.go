@@ -430,6 +430,11 @@ func variantUsage(v variantFlag, infos []verification.ProblemInfo) string {
 	if len(defaults) > 0 {
 		u += " (default " + strings.Join(defaults, ", ") + ")"
 	}
+	if v.flag == "flux" && slices.Contains(choices, "scott-vogelius") {
+		// The sosm study names its Scott–Vogelius variant among the
+		// fluxes: it changes the velocity–pressure pair, not the flux.
+		u += "; for sosm, scott-vogelius means BDM fluxes with the Scott–Vogelius velocity–pressure pair instead of Taylor–Hood"
+	}
 	return u
 }
 
