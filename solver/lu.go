@@ -607,18 +607,23 @@ func (f *LU) solveColumn(w *columnWork, ac *CSC, col int, pinv []int, x []float6
 		if s < 0 {
 			continue
 		}
-		xj := x[j]
-		if xj == 0 {
-			continue
-		}
-		lo, hi := f.lptr[s], f.lptr[s+1]
-		idx := f.lidx[lo:hi]
-		val := f.lval[lo:hi]
-		for t, r := range idx {
-			x[r] -= val[t] * xj
+		if xj := x[j]; xj != 0 {
+			f.subtractColumnL(x, s, xj)
 		}
 	}
 	return top
+}
+
+// subtractColumnL sets x -= a L(:, s) over the stored entries of column s
+// of L (below the unit diagonal): the column update of both the numeric
+// factorisation and the forward substitution.
+func (f *LU) subtractColumnL(x []float64, s int, a float64) {
+	lo, hi := f.lptr[s], f.lptr[s+1]
+	idx := f.lidx[lo:hi]
+	val := f.lval[lo:hi]
+	for t, r := range idx {
+		x[r] -= val[t] * a
+	}
 }
 
 func resizeInts(s []int, n int) []int {
@@ -666,15 +671,8 @@ func (f *LU) SolveTo(dst, b []float64) error {
 	}
 	// L y = P b, column-oriented forward substitution.
 	for k := 0; k < f.n; k++ {
-		yk := y[k]
-		if yk == 0 {
-			continue
-		}
-		lo, hi := f.lptr[k], f.lptr[k+1]
-		idx := f.lidx[lo:hi]
-		val := f.lval[lo:hi]
-		for t, r := range idx {
-			y[r] -= val[t] * yk
+		if yk := y[k]; yk != 0 {
+			f.subtractColumnL(y, k, yk)
 		}
 	}
 	// U z = y, column-oriented back substitution.
