@@ -58,3 +58,18 @@ func solved(t *testing.T, path, data string) (*Setup, *Outcome) {
 	}
 	return s, o
 }
+
+// checkCleanRun fails the test unless the run converged, closed every
+// species balance to 1e-10 and gave no warnings.
+func checkCleanRun(t *testing.T, o *Outcome) {
+	t.Helper()
+	if !o.Converged {
+		t.Fatalf("not converged in %d iterations", o.Iterations)
+	}
+	if !(o.SpeciesBalance < 1e-10) {
+		t.Errorf("species balance %.3g, want < 1e-10", o.SpeciesBalance)
+	}
+	if len(o.Warnings) > 0 {
+		t.Errorf("warnings %q, want none", o.Warnings)
+	}
+}
