@@ -33,21 +33,11 @@ type Discretisation struct {
 	n, k int
 	m    *mesh.Mesh
 
-	velEl  *fem.Lagrange
-	presEl fem.ScalarElement
-	fluxEl fem.DivElement
-	potEl  *fem.Discontinuous
-
-	// V, P, F, U are the velocity-component, pressure, flux and potential
-	// spaces.
-	V, P, F, U *fem.Space
-	lay        *fem.Layout
-	sys        *fem.PatternSystem
-
-	vq, pq, uq *fem.ScalarQuad
-	fq         *fem.DivQuad
-	ve, pe, fe *fem.EdgeQuad
-	qdeg       int
+	// mixedSpaces holds the elements, the spaces V, P, F, U (velocity
+	// component, pressure, flux, potential) and the quadrature tables.
+	mixedSpaces
+	lay *fem.Layout
+	sys *fem.PatternSystem
 
 	// pinnedP is the pressure unknown fixed to remove the constant
 	// pressure mode, or -1; pinnedMu[i] likewise for mu_i.
@@ -69,7 +59,6 @@ type Discretisation struct {
 	outflow    []outflowEdge
 	outflowOf  map[int][]int
 	out        outletData
-	ue         *fem.EdgeQuad
 	// edgeCond lists, per triangle with boundary edges, the local edges
 	// with natural data.
 	bnd []boundaryEdge
@@ -120,33 +109,9 @@ func NewDiscretisation(p *Problem) (*Discretisation, error) {
 	k, n := p.Degree, p.Mixture.Len()
 	d := &Discretisation{prob: p, n: n, k: k, m: p.Mesh, pinnedP: -1}
 	var err error
-	if d.velEl, err = fem.NewLagrange(k + 1); err != nil {
+	if d.mixedSpaces, err = newMixedSpaces(p); err != nil {
 		return nil, err
 	}
-	if p.Pressure == ScottVogelius {
-		d.presEl, err = fem.NewDiscontinuous(k)
-	} else {
-		d.presEl, err = fem.NewLagrange(k)
-	}
-	if err != nil {
-		return nil, err
-	}
-	if p.Flux == RTFlux {
-		d.fluxEl, err = fem.NewRaviartThomas(k)
-	} else {
-		d.fluxEl, err = fem.NewBDM(k + 1)
-	}
-	if err != nil {
-		return nil, err
-	}
-	if d.potEl, err = fem.NewDiscontinuous(k); err != nil {
-		return nil, err
-	}
-	m := p.Mesh
-	d.V = fem.NewScalarSpace(m, d.velEl)
-	d.P = fem.NewScalarSpace(m, d.presEl)
-	d.F = fem.NewDivSpace(m, d.fluxEl)
-	d.U = fem.NewScalarSpace(m, d.potEl)
 	spaces := []*fem.Space{d.V, d.V, d.P}
 	for i := 0; i < n; i++ {
 		spaces = append(spaces, d.F)
@@ -155,19 +120,6 @@ func NewDiscretisation(p *Problem) (*Discretisation, error) {
 		spaces = append(spaces, d.U)
 	}
 	d.lay = fem.NewLayout(spaces...)
-	d.qdeg = p.QuadratureDegree
-	if d.qdeg == 0 {
-		d.qdeg = 2*(k+1) + 4
-	}
-	d.vq = fem.NewScalarQuad(d.velEl, d.qdeg)
-	d.pq = fem.NewScalarQuad(d.presEl, d.qdeg)
-	d.uq = fem.NewScalarQuad(d.potEl, d.qdeg)
-	d.fq = fem.NewDivQuad(d.fluxEl, d.qdeg)
-	npts := k + 4
-	d.ve = fem.NewScalarEdgeQuad(d.velEl, npts)
-	d.pe = fem.NewScalarEdgeQuad(d.presEl, npts)
-	d.fe = fem.NewDivEdgeQuad(d.fluxEl, npts)
-	d.ue = fem.NewScalarEdgeQuad(d.potEl, npts)
 	d.convection = p.linearisedConvection()
 	d.sys = fem.NewPatternSystem(d.lay.Len())
 	if err := d.fixEssential(); err != nil {
@@ -244,25 +196,11 @@ func (d *Discretisation) fixEssential() error {
 		case VelocityTraction:
 			allVelocityEssential = false
 		case VelocityGiven:
-			f := bc.Velocity.Velocity
-			for c := 0; c < 2; c++ {
-				comp := c
-				dofs, vals, err := fem.BoundaryValues(d.V, []int{t}, func(x [2]float64) float64 {
-					if f == nil {
-						return 0
-					}
-					return f(x)[comp]
-				})
-				if err != nil {
-					return err
-				}
-				for a, g := range dofs {
-					d.sys.Fix(d.lay.Offset(blockVX+c)+g, vals[a])
-					if d.given == nil {
-						d.given = map[int]bool{}
-					}
-					d.given[d.lay.Offset(blockVX+c)+g] = true
-				}
+			if d.given == nil {
+				d.given = map[int]bool{}
+			}
+			if err := d.fixGivenVelocity(d.sys, d.lay, t, bc.Velocity.Velocity, func(g int) { d.given[g] = true }); err != nil {
+				return err
 			}
 		}
 		for i, sc := range bc.Species {
@@ -727,22 +665,9 @@ func (d *Discretisation) assemble(fr frozenField) (*solver.CSR, []float64, error
 			// sparse LU then compare entries of like size, also at S = 1e-13.
 			sw := W
 			// Velocity–velocity: 2 eta eps:eps + lambda div div + gamma u.v.
+			addViscous(&w.vv, sw, eta, lam, gam, phi, gphi)
 			for a := 0; a < nv; a++ {
 				ga := gphi[a]
-				for b := 0; b < nv; b++ {
-					gb := gphi[b]
-					gg := ga[0]*gb[0] + ga[1]*gb[1]
-					mass := gam * phi[a] * phi[b]
-					for c := 0; c < 2; c++ {
-						for e := 0; e < 2; e++ {
-							val := eta*ga[e]*gb[c] + lam*ga[c]*gb[e]
-							if c == e {
-								val += eta*gg + mass
-							}
-							w.vv[c][e][a*nv+b] += sw * val
-						}
-					}
-				}
 				w.fv[0][a] += sw * force[0] * phi[a]
 				w.fv[1][a] += sw * force[1] * phi[a]
 				// Velocity–flux: -gamma u . J_j / rho (same for every j),
@@ -915,26 +840,14 @@ func (d *Discretisation) boundaryTerms(fr frozenField, t int, af *fem.Affine) er
 	tri := m.TriangleEdges[t]
 	w := &d.w
 	p, n := d.prob, d.n
-	nv, nf, nm := w.nv, w.nf, w.nm
+	nf, nm := w.nf, w.nm
 	for le, e := range tri {
 		if !m.IsBoundary(e) {
 			continue
 		}
 		tag := m.EdgeTags[e]
 		bc := p.Boundary[tag]
-		nrm, length := fem.OutwardNormal(m, e)
-		if bc.Velocity.Kind == VelocityTraction && bc.Velocity.Traction != nil {
-			vals := d.ve.Value[le]
-			for q := 0; q < d.ve.NQ; q++ {
-				xq := af.Point(d.ve.Ref[le][q])
-				tr := bc.Velocity.Traction(xq, nrm)
-				f := length * d.ve.W[q]
-				for a := 0; a < nv; a++ {
-					w.fv[0][a] += f * tr[0] * vals[q*nv+a]
-					w.fv[1][a] += f * tr[1] * vals[q*nv+a]
-				}
-			}
-		}
+		d.addTraction(&w.fv, m, bc, e, le, af)
 		any := false
 		for _, sc := range bc.Species {
 			if sc.Kind == SpeciesPotential {
