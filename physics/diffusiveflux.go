@@ -1,0 +1,754 @@
+package physics
+
+import (
+	"fmt"
+	"math"
+
+	"mixwell/fem"
+	"mixwell/mesh"
+	"mixwell/solver"
+)
+
+// The diffusive-flux formulation (formulation note, section 10 item 2,
+// remedy (c)).
+//
+// The unknowns are the velocity v and pressure p, the diffusive mass fluxes
+// j_i = J_i - w_i rho v of the first n-1 species (j_n = -sum_{i<n} j_i, so
+// that the total flux sum J_i is rho v by construction) and the n-1 relative
+// mass potentials m_i = mu_i/M_i - mu_n/M_n, in the spaces of Discretisation.
+// Testing OSM row i with K_i/rho_i, where K_n = -sum_{i<n} K_i, removes the
+// pressure and the convective part: the transport matrix annihilates a
+// common velocity (M 1 = 0), and w_i grad p . K_i/rho_i sums to
+// grad p . sum K_i / rho = 0. With frozen concentrations, one step reads:
+//
+//	int 2 eta eps(v):eps(u) + lambda div v div u - int p div u = l(u)
+//	-int q div(rho v)                                        = -int q sum_i M_i r_i
+//	sum_{i,j<n} int A_ij j_j.K_i - sum_{i<n} int m_i div K_i = sum_{i<n} int h_i.K_i - boundary
+//	-int nu_i (div j_i + div(rho_i v))                       = -int nu_i M_i r_i   (i < n)
+//
+// with A = P^T diag(1/rho) M diag(1/rho) P (P appends the row -1^T, so A_ij
+// = B_ij - B_in - B_nj + B_nn, B_ij = M_ij/(rho_i rho_j)), h_i = g_i/rho_i -
+// g_n/rho_n (manufactured sources), and on a potential boundary the term
+// -int m_i,b K_i.n. Neither the group S nor an augmentation appears: the
+// mass-average constraint holds identically, and the species rows no
+// longer see the pressure. The price is a non-symmetric system (the
+// convection couples v into the continuity rows, the density into the mass
+// row) and that species n, whose balance is the total mass row minus the
+// others, is conserved element by element only when the pressure test
+// space holds the element indicators (Scott–Vogelius); with Taylor–Hood its
+// element defects converge but do not vanish.
+//
+// This type solves one step with frozen concentrations: it is the
+// measurement of docs/augmentation.md, not yet a nonlinear solver. Outflow,
+// slip and Stefan-wall conditions, and boundaries that mix flux and
+// potential data, are not built for it and are rejected by name.
+
+// Block numbers of a DiffusiveFlux layout: vx, vy, p, then j_1..j_{n-1},
+// then m_1..m_{n-1}.
+const dfBlockJ0 = 3
+
+// DiffusiveFlux is the frozen-coefficient diffusive-flux discretisation of a
+// Problem (remedy (c) of docs/augmentation.md): Taylor–Hood or
+// Scott–Vogelius velocity and pressure, BDM or RT diffusive fluxes of n-1
+// species and discontinuous relative potentials. The sparsity pattern and
+// the set of essential unknowns are built once. Not safe for concurrent use.
+type DiffusiveFlux struct {
+	prob *Problem
+	n, r int // species, independent fluxes r = n-1
+	k    int
+	m    *mesh.Mesh
+
+	// mixedSpaces holds the elements, the spaces V, P, F, U (velocity
+	// component, pressure, diffusive flux, relative potential) and the
+	// quadrature tables.
+	mixedSpaces
+	lay *fem.Layout
+	sys *fem.PatternSystem
+
+	// fluxTags lists the tags with flux data, potentialTags those with
+	// potential data.
+	fluxTags, potentialTags []int
+	// pinnedP and pinnedM are the unknowns fixed to remove constant modes
+	// (-1: none).
+	pinnedP int
+	pinnedM []int
+}
+
+// NewDiffusiveFlux builds the spaces, the essential set and the sparsity
+// pattern of p for the diffusive-flux formulation. The error names the tag
+// or condition that the formulation does not support.
+func NewDiffusiveFlux(p *Problem) (*DiffusiveFlux, error) {
+	if err := p.validate(); err != nil {
+		return nil, err
+	}
+	k, n := p.Degree, p.Mixture.Len()
+	d := &DiffusiveFlux{prob: p, n: n, r: n - 1, k: k, m: p.Mesh, pinnedP: -1}
+	var err error
+	if d.mixedSpaces, err = newMixedSpaces(p); err != nil {
+		return nil, err
+	}
+	spaces := []*fem.Space{d.V, d.V, d.P}
+	for i := 0; i < d.r; i++ {
+		spaces = append(spaces, d.F)
+	}
+	for i := 0; i < d.r; i++ {
+		spaces = append(spaces, d.U)
+	}
+	d.lay = fem.NewLayout(spaces...)
+	d.sys = fem.NewPatternSystem(d.lay.Len())
+	if err := d.fixEssential(); err != nil {
+		return nil, err
+	}
+	d.couple()
+	d.sys.Build()
+	return d, nil
+}
+
+// Layout returns the layout of the unknown vector: vx, vy, p, j_1..j_{n-1},
+// m_1..m_{n-1}.
+func (d *DiffusiveFlux) Layout() *fem.Layout { return d.lay }
+
+// Len returns the number of unknowns.
+func (d *DiffusiveFlux) Len() int { return d.lay.Len() }
+
+// fixEssential sorts the tags into flux and potential data, fixes the
+// velocity data and declares the normal moments of the diffusive fluxes on
+// flux boundaries essential (their values depend on the frozen state and
+// are set by each solve).
+func (d *DiffusiveFlux) fixEssential() error {
+	p, m := d.prob, d.m
+	allVelocityEssential := true
+	for _, t := range m.Tags() {
+		bc := p.Boundary[t]
+		kind := bc.Species[0].Kind
+		for i, sc := range bc.Species {
+			if sc.Kind == SpeciesOutflow {
+				return fmt.Errorf("physics: boundary %s: the outflow condition is not built for the diffusive-flux formulation", tagLabel(m, t))
+			}
+			if sc.Relative {
+				return fmt.Errorf("physics: boundary %s, species %q: relative potential data are not built for the diffusive-flux formulation", tagLabel(m, t), p.Mixture.Name(i))
+			}
+			if sc.Kind != kind {
+				return fmt.Errorf("physics: boundary %s mixes flux and potential data (species %q has %s, %q has %s); the diffusive-flux formulation needs one kind for every species of a boundary",
+					tagLabel(m, t), p.Mixture.Name(0), kind, p.Mixture.Name(i), sc.Kind)
+			}
+		}
+		switch bc.Velocity.Kind {
+		case VelocityGiven:
+			if err := d.fixGivenVelocity(d.sys, d.lay, t, bc.Velocity.Velocity, nil); err != nil {
+				return err
+			}
+		case VelocityTraction:
+			if bc.Velocity.NoTangential {
+				return fmt.Errorf("physics: boundary %s: the outlet with zero tangential velocity is not built for the diffusive-flux formulation", tagLabel(m, t))
+			}
+			allVelocityEssential = false
+		default:
+			return fmt.Errorf("physics: boundary %s: the %s condition is not built for the diffusive-flux formulation (given velocity or traction only)", tagLabel(m, t), bc.Velocity.Kind)
+		}
+		if kind == SpeciesPotential {
+			d.potentialTags = append(d.potentialTags, t)
+			continue
+		}
+		// Flux data fix j_i.n = J_i.n - rho_i v.n, which needs v.n known.
+		if bc.Velocity.Kind != VelocityGiven {
+			return fmt.Errorf("physics: boundary %s has species flux data on an open (traction) boundary; the diffusive-flux formulation needs the velocity given there", tagLabel(m, t))
+		}
+		d.fluxTags = append(d.fluxTags, t)
+		dofs, _, err := fem.BoundaryNormalMoments(d.F, []int{t}, func(x, nrm [2]float64) float64 { return 0 })
+		if err != nil {
+			return err
+		}
+		for i := 0; i < d.r; i++ {
+			for _, g := range dofs {
+				d.sys.Fix(d.lay.Offset(dfBlockJ0+i)+g, 0)
+			}
+		}
+	}
+	d.pinnedM = make([]int, d.r)
+	for i := range d.pinnedM {
+		d.pinnedM[i] = -1
+		if len(d.potentialTags) == 0 {
+			g := d.lay.Offset(dfBlockJ0+d.r+i) + d.U.Dofs(0)[0]
+			d.sys.Fix(g, 0)
+			d.pinnedM[i] = g
+		}
+	}
+	if allVelocityEssential {
+		g := d.lay.Offset(blockP) + d.P.Dofs(0)[0]
+		d.sys.Fix(g, 0)
+		d.pinnedP = g
+	}
+	return nil
+}
+
+// couple declares the non-zero blocks on every triangle.
+func (d *DiffusiveFlux) couple() {
+	off := d.lay.Offset
+	r := d.r
+	for t := 0; t < d.m.NumTriangles(); t++ {
+		vd, pd, fd, ud := d.V.Dofs(t), d.P.Dofs(t), d.F.Dofs(t), d.U.Dofs(t)
+		for c := 0; c < 2; c++ {
+			for e := 0; e < 2; e++ {
+				d.sys.Couple(off(blockVX+c), vd, off(blockVX+e), vd)
+			}
+			d.sys.Couple(off(blockVX+c), vd, off(blockP), pd)
+			d.sys.Couple(off(blockP), pd, off(blockVX+c), vd)
+			for i := 0; i < r; i++ {
+				d.sys.Couple(off(dfBlockJ0+r+i), ud, off(blockVX+c), vd)
+			}
+		}
+		for i := 0; i < r; i++ {
+			for j := 0; j < r; j++ {
+				d.sys.Couple(off(dfBlockJ0+i), fd, off(dfBlockJ0+j), fd)
+			}
+			d.sys.Couple(off(dfBlockJ0+r+i), ud, off(dfBlockJ0+i), fd)
+			d.sys.Couple(off(dfBlockJ0+i), fd, off(dfBlockJ0+r+i), ud)
+		}
+	}
+}
+
+// DiffusiveFluxSolution is the result of one frozen diffusive-flux step.
+type DiffusiveFluxSolution struct {
+	d *DiffusiveFlux
+	// X is the coefficient vector (blocks vx, vy, p, j_1..j_{n-1},
+	// m_1..m_{n-1}).
+	X []float64
+	// LinearResidual is the relative residual of the linear solve.
+	LinearResidual float64
+	conc           func(x [2]float64, c []float64, gradc [][2]float64)
+}
+
+// Velocity returns the coefficients of velocity component c in d.V.
+func (s *DiffusiveFluxSolution) Velocity(c int) []float64 { return s.d.lay.Block(s.X, blockVX+c) }
+
+// Pressure returns the pressure coefficients in d.P.
+func (s *DiffusiveFluxSolution) Pressure() []float64 { return s.d.lay.Block(s.X, blockP) }
+
+// DiffusiveFlux returns the coefficients of j_i in d.F, i < n-1.
+func (s *DiffusiveFluxSolution) DiffusiveFlux(i int) []float64 {
+	return s.d.lay.Block(s.X, dfBlockJ0+i)
+}
+
+// RelativePotential returns the coefficients of m_i = mu_i/M_i - mu_n/M_n
+// in d.U, i < n-1.
+func (s *DiffusiveFluxSolution) RelativePotential(i int) []float64 {
+	return s.d.lay.Block(s.X, dfBlockJ0+s.d.r+i)
+}
+
+// SolveFrozen assembles and solves one step with the concentrations (and
+// their gradients) given by conc, a function of position.
+func (d *DiffusiveFlux) SolveFrozen(conc func(x [2]float64, c []float64, gradc [][2]float64)) (*DiffusiveFluxSolution, error) {
+	if err := d.setFluxData(conc); err != nil {
+		return nil, err
+	}
+	A, b, err := d.assemble(conc)
+	if err != nil {
+		return nil, err
+	}
+	lu, err := solver.FactorLU(A, nil)
+	if err != nil {
+		return nil, fmt.Errorf("physics: factorising the diffusive-flux system (%d unknowns, %d non-zeros): %w", len(b), A.NNZ(), err)
+	}
+	x := make([]float64, len(b))
+	res, err := lu.SolveRefinedTo(x, A, b, 2)
+	if err != nil {
+		return nil, fmt.Errorf("physics: solving the diffusive-flux system: %w", err)
+	}
+	if math.IsNaN(res) || res > 1e-6 {
+		return nil, fmt.Errorf("physics: diffusive-flux linear solve inaccurate: relative residual %.3g", res)
+	}
+	s := &DiffusiveFluxSolution{d: d, X: x, LinearResidual: res, conc: conc}
+	if d.pinnedP >= 0 {
+		shiftMean(d.P, s.Pressure())
+	}
+	for i, g := range d.pinnedM {
+		if g >= 0 {
+			shiftMean(d.U, s.RelativePotential(i))
+		}
+	}
+	return s, nil
+}
+
+// setFluxData sets the essential normal moments j_i.n = J_i.n - rho_i v.n on
+// flux boundaries with the frozen partial densities.
+func (d *DiffusiveFlux) setFluxData(conc func(x [2]float64, c []float64, gradc [][2]float64)) error {
+	p, n := d.prob, d.n
+	c := make([]float64, n)
+	gc := make([][2]float64, n)
+	for _, t := range d.fluxTags {
+		bc := p.Boundary[t]
+		for i := 0; i < d.r; i++ {
+			sp := i
+			g, vel := bc.Species[i].Flux, bc.Velocity.Velocity
+			var bad error
+			dofs, vals, err := fem.BoundaryNormalMoments(d.F, []int{t}, func(x, nrm [2]float64) float64 {
+				var jn float64
+				if g != nil {
+					jn = g(x, nrm)
+				}
+				if vel == nil {
+					return jn
+				}
+				conc(x, c, gc)
+				if !(c[sp] > 0) && bad == nil {
+					bad = &StateError{Model: "frozen state", Species: p.Mixture.Name(sp),
+						Reason: fmt.Sprintf("concentration %g at (%g, %g) on boundary %s is not positive", c[sp], x[0], x[1], tagLabel(d.m, t))}
+				}
+				v := vel(x)
+				return jn - p.Mixture.mass[sp]*c[sp]*(v[0]*nrm[0]+v[1]*nrm[1])
+			})
+			if err != nil {
+				return err
+			}
+			if bad != nil {
+				return bad
+			}
+			for a, gd := range dofs {
+				d.sys.Fix(d.lay.Offset(dfBlockJ0+i)+gd, vals[a])
+			}
+		}
+	}
+	return nil
+}
+
+// assemble builds the frozen diffusive-flux system.
+func (d *DiffusiveFlux) assemble(conc func(x [2]float64, c []float64, gradc [][2]float64)) (*solver.CSR, []float64, error) {
+	p, n, r, m := d.prob, d.n, d.r, d.m
+	mix := p.Mixture
+	off := d.lay.Offset
+	nv, np, nf, nm := d.V.LocalLen(), d.P.LocalLen(), d.F.LocalLen(), d.U.LocalLen()
+	// Element buffers, allocated once per assembly.
+	var vv [2][2][]float64
+	var vp, pv, fv [2][]float64
+	uv := make([][2][]float64, r)
+	for c := 0; c < 2; c++ {
+		for e := 0; e < 2; e++ {
+			vv[c][e] = make([]float64, nv*nv)
+		}
+		vp[c] = make([]float64, nv*np)
+		pv[c] = make([]float64, np*nv)
+		fv[c] = make([]float64, nv)
+		for i := 0; i < r; i++ {
+			uv[i][c] = make([]float64, nm*nv)
+		}
+	}
+	fp := make([]float64, np)
+	jj := make([][]float64, r*r)
+	for i := range jj {
+		jj[i] = make([]float64, nf*nf)
+	}
+	uj := make([]float64, nm*nf)
+	ju := make([]float64, nf*nm)
+	fj := make([][]float64, r)
+	fu := make([][]float64, r)
+	for i := 0; i < r; i++ {
+		fj[i] = make([]float64, nf)
+		fu[i] = make([]float64, nm)
+	}
+	gram := make([]float64, nf*nf)
+	cq := make([]float64, n)
+	gq := make([][2]float64, n)
+	x := make([]float64, n)
+	mm := make([]float64, n*n)
+	bb := make([]float64, n*n)
+	rr := make([]float64, n)
+	gg := make([][2]float64, n)
+	rhoi := make([]float64, n)
+	d.sys.Reset()
+	for t := 0; t < m.NumTriangles(); t++ {
+		af := fem.ElementMap(m, t)
+		d.vq.Reinit(&af)
+		d.pq.Reinit(&af)
+		d.uq.Reinit(&af)
+		d.fq.Reinit(&af)
+		for c := 0; c < 2; c++ {
+			for e := 0; e < 2; e++ {
+				clear(vv[c][e])
+			}
+			clear(vp[c])
+			clear(pv[c])
+			clear(fv[c])
+			for i := 0; i < r; i++ {
+				clear(uv[i][c])
+			}
+		}
+		clear(fp)
+		for i := range jj {
+			clear(jj[i])
+		}
+		clear(uj)
+		for i := 0; i < r; i++ {
+			clear(fj[i])
+			clear(fu[i])
+		}
+		for q := 0; q < d.vq.NQ; q++ {
+			W := d.vq.W[q]
+			xq := d.vq.X[q]
+			conc(xq, cq, gq)
+			var rho, cT float64
+			var grho [2]float64
+			for i, ci := range cq {
+				if !(ci > 0) {
+					return nil, nil, &StateError{Model: "frozen state", Species: mix.Name(i),
+						Reason: fmt.Sprintf("concentration %g at (%g, %g) in triangle %d is not positive", ci, xq[0], xq[1], t)}
+				}
+				Mi := mix.mass[i]
+				rhoi[i] = Mi * ci
+				rho += rhoi[i]
+				grho[0] += Mi * gq[i][0]
+				grho[1] += Mi * gq[i][1]
+				cT += ci
+			}
+			for i := range cq {
+				x[i] = cq[i] / cT
+			}
+			eta := p.Viscosity.Viscosity(x)
+			lam := p.BulkViscosity - 2*eta/3
+			mix.TransportMatrixTo(mm, cq, 1)
+			for i := 0; i < n; i++ {
+				for j := 0; j < n; j++ {
+					bb[i*n+j] = mm[i*n+j] / (rhoi[i] * rhoi[j])
+				}
+			}
+			var force [2]float64
+			clear(rr)
+			clear(gg)
+			if p.Source != nil {
+				if p.Source.Force != nil {
+					force = p.Source.Force(xq)
+				}
+				if p.Source.Production != nil {
+					p.Source.Production(rr, xq)
+				}
+				if p.Source.Residual != nil {
+					p.Source.Residual(gg, xq)
+				}
+			}
+			force[0] += rho * p.Gravity[0]
+			force[1] += rho * p.Gravity[1]
+			var massProd float64
+			for i := 0; i < n; i++ {
+				massProd += mix.mass[i] * rr[i]
+			}
+			phi := d.vq.Val[q*nv : (q+1)*nv]
+			gphi := d.vq.Grad[q*nv : (q+1)*nv]
+			psi := d.pq.Val[q*np : (q+1)*np]
+			chi := d.uq.Val[q*nm : (q+1)*nm]
+			fvq := d.fq.Val[q*nf : (q+1)*nf]
+			fdiv := d.fq.Div[q*nf : (q+1)*nf]
+			addViscous(&vv, W, eta, lam, 0, phi, gphi)
+			for a := 0; a < nv; a++ {
+				ga := gphi[a]
+				fv[0][a] += W * force[0] * phi[a]
+				fv[1][a] += W * force[1] * phi[a]
+				// Momentum: -p div u; total mass: -q div(rho v).
+				for s := 0; s < np; s++ {
+					vp[0][a*np+s] -= W * psi[s] * ga[0]
+					vp[1][a*np+s] -= W * psi[s] * ga[1]
+					pv[0][s*nv+a] -= W * psi[s] * (rho*ga[0] + phi[a]*grho[0])
+					pv[1][s*nv+a] -= W * psi[s] * (rho*ga[1] + phi[a]*grho[1])
+				}
+				// Convection in the continuity rows: -nu div(rho_i v).
+				for i := 0; i < r; i++ {
+					Mi := mix.mass[i]
+					gri := [2]float64{Mi * gq[i][0], Mi * gq[i][1]}
+					for s := 0; s < nm; s++ {
+						uv[i][0][s*nv+a] -= W * chi[s] * (rhoi[i]*ga[0] + gri[0]*phi[a])
+						uv[i][1][s*nv+a] -= W * chi[s] * (rhoi[i]*ga[1] + gri[1]*phi[a])
+					}
+				}
+			}
+			for s := 0; s < np; s++ {
+				fp[s] -= W * psi[s] * massProd
+			}
+			for a := 0; a < nf; a++ {
+				for b := a; b < nf; b++ {
+					v := W * (fvq[a][0]*fvq[b][0] + fvq[a][1]*fvq[b][1])
+					gram[a*nf+b] = v
+					gram[b*nf+a] = v
+				}
+			}
+			last := n - 1
+			for i := 0; i < r; i++ {
+				for j := 0; j < r; j++ {
+					coef := bb[i*n+j] - bb[i*n+last] - bb[last*n+j] + bb[last*n+last]
+					blk := jj[i*r+j]
+					for ab, gv := range gram {
+						blk[ab] += coef * gv
+					}
+				}
+				h := [2]float64{gg[i][0]/rhoi[i] - gg[last][0]/rhoi[last], gg[i][1]/rhoi[i] - gg[last][1]/rhoi[last]}
+				if h != [2]float64{} {
+					for a := 0; a < nf; a++ {
+						fj[i][a] += W * (h[0]*fvq[a][0] + h[1]*fvq[a][1])
+					}
+				}
+				if rr[i] != 0 {
+					for s := 0; s < nm; s++ {
+						fu[i][s] -= W * chi[s] * mix.mass[i] * rr[i]
+					}
+				}
+			}
+			for s := 0; s < nm; s++ {
+				f := -W * chi[s]
+				for b := 0; b < nf; b++ {
+					uj[s*nf+b] += f * fdiv[b]
+				}
+			}
+		}
+		d.boundaryTerms(t, &af, fv, fj)
+		transposeTo(ju, uj, nm, nf)
+		vd, pd, fd, ud := d.V.Dofs(t), d.P.Dofs(t), d.F.Dofs(t), d.U.Dofs(t)
+		fs := d.F.Signs(t)
+		for c := 0; c < 2; c++ {
+			for e := 0; e < 2; e++ {
+				d.sys.AddMatrix(off(blockVX+c), vd, nil, off(blockVX+e), vd, nil, vv[c][e])
+			}
+			d.sys.AddMatrix(off(blockVX+c), vd, nil, off(blockP), pd, nil, vp[c])
+			d.sys.AddMatrix(off(blockP), pd, nil, off(blockVX+c), vd, nil, pv[c])
+			d.sys.AddVector(off(blockVX+c), vd, nil, fv[c])
+			for i := 0; i < r; i++ {
+				d.sys.AddMatrix(off(dfBlockJ0+r+i), ud, nil, off(blockVX+c), vd, nil, uv[i][c])
+			}
+		}
+		d.sys.AddVector(off(blockP), pd, nil, fp)
+		for i := 0; i < r; i++ {
+			for j := 0; j < r; j++ {
+				d.sys.AddMatrix(off(dfBlockJ0+i), fd, fs, off(dfBlockJ0+j), fd, fs, jj[i*r+j])
+			}
+			d.sys.AddMatrix(off(dfBlockJ0+r+i), ud, nil, off(dfBlockJ0+i), fd, fs, uj)
+			d.sys.AddMatrix(off(dfBlockJ0+i), fd, fs, off(dfBlockJ0+r+i), ud, nil, ju)
+			d.sys.AddVector(off(dfBlockJ0+i), fd, fs, fj[i])
+			d.sys.AddVector(off(dfBlockJ0+r+i), ud, nil, fu[i])
+		}
+	}
+	A, b := d.sys.Matrix()
+	return A, b, nil
+}
+
+// boundaryTerms adds the traction on open boundaries and the relative
+// potential term -m_i,b K_i.n, m_i,b = mu_i,b/M_i - mu_n,b/M_n, on potential
+// boundaries of triangle t.
+func (d *DiffusiveFlux) boundaryTerms(t int, af *fem.Affine, fv [2][]float64, fj [][]float64) {
+	m, p := d.m, d.prob
+	nf := d.F.LocalLen()
+	last := d.n - 1
+	for le, e := range m.TriangleEdges[t] {
+		if !m.IsBoundary(e) {
+			continue
+		}
+		bc := p.Boundary[m.EdgeTags[e]]
+		d.addTraction(&fv, m, bc, e, le, af)
+		if bc.Species[0].Kind != SpeciesPotential {
+			continue
+		}
+		sgn := 1.0
+		if af.Det < 0 {
+			sgn = -1
+		}
+		nt := d.fe.Normal[le]
+		for q := 0; q < d.fe.NQ; q++ {
+			xq := af.Point(d.fe.Ref[le][q])
+			mun := bc.Species[last].Potential(xq) / p.Mixture.mass[last]
+			for i := 0; i < d.r; i++ {
+				mb := bc.Species[i].Potential(xq)/p.Mixture.mass[i] - mun
+				v := -sgn * d.fe.W[q] * mb
+				for a := 0; a < nf; a++ {
+					fj[i][a] += v * nt[q*nf+a]
+				}
+			}
+		}
+	}
+}
+
+// DiffusiveFluxErrors holds the errors of a frozen diffusive-flux solution
+// against exact fields, in the L2 norm unless named otherwise.
+type DiffusiveFluxErrors struct {
+	VelocityL2, VelocityH1, Pressure float64
+	// Flux and FluxDiv are, per species (all n), the errors of the total
+	// mass flux J_i,h = j_i,h + rho_i v_h and of its divergence.
+	Flux, FluxDiv []float64
+	// Potential is, per independent species i < n-1, the error of the
+	// relative potential m_i.
+	Potential []float64
+}
+
+// DiffusiveFluxExact gives the exact fields at a point: velocity and its
+// gradient (grad[a][b] = d v_a / d x_b), pressure, mass fluxes J_i and
+// their divergences, and potentials mu_i.
+type DiffusiveFluxExact func(x [2]float64) (v [2]float64, grad [2][2]float64, p float64, J [][2]float64, divJ []float64, mu []float64)
+
+// Errors measures s against the exact fields with a triangle rule exact to
+// quadDegree.
+func (s *DiffusiveFluxSolution) Errors(exact DiffusiveFluxExact, quadDegree int) *DiffusiveFluxErrors {
+	d := s.d
+	n, r := d.n, d.r
+	mix := d.prob.Mixture
+	vq := fem.NewScalarQuad(d.velEl, quadDegree)
+	pq := fem.NewScalarQuad(d.presEl, quadDegree)
+	uq := fem.NewScalarQuad(d.potEl, quadDegree)
+	fq := fem.NewDivQuad(d.fluxEl, quadDegree)
+	nv, np, nf, nm := vq.N, pq.N, fq.N, uq.N
+	out := &DiffusiveFluxErrors{
+		Flux: make([]float64, n), FluxDiv: make([]float64, n),
+		Potential: make([]float64, r),
+	}
+	c := make([]float64, n)
+	gc := make([][2]float64, n)
+	jh := make([][2]float64, n)
+	djh := make([]float64, n)
+	vx, vy, pr := s.Velocity(0), s.Velocity(1), s.Pressure()
+	for t := 0; t < d.m.NumTriangles(); t++ {
+		af := fem.ElementMap(d.m, t)
+		vq.Reinit(&af)
+		pq.Reinit(&af)
+		uq.Reinit(&af)
+		fq.Reinit(&af)
+		vd, pd, fd, ud := d.V.Dofs(t), d.P.Dofs(t), d.F.Dofs(t), d.U.Dofs(t)
+		fs := d.F.Signs(t)
+		for q := 0; q < vq.NQ; q++ {
+			W, xq := vq.W[q], vq.X[q]
+			var v [2]float64
+			var gv [2][2]float64
+			for a := 0; a < nv; a++ {
+				cx, cy := vx[vd[a]], vy[vd[a]]
+				v[0] += cx * vq.Val[q*nv+a]
+				v[1] += cy * vq.Val[q*nv+a]
+				for b := 0; b < 2; b++ {
+					gv[0][b] += cx * vq.Grad[q*nv+a][b]
+					gv[1][b] += cy * vq.Grad[q*nv+a][b]
+				}
+			}
+			var ph float64
+			for a := 0; a < np; a++ {
+				ph += pr[pd[a]] * pq.Val[q*np+a]
+			}
+			ve, gve, pe, Je, divJe, mue := exact(xq)
+			dv := [2]float64{v[0] - ve[0], v[1] - ve[1]}
+			out.VelocityL2 += W * (dv[0]*dv[0] + dv[1]*dv[1])
+			for a := 0; a < 2; a++ {
+				for b := 0; b < 2; b++ {
+					e := gv[a][b] - gve[a][b]
+					out.VelocityH1 += W * e * e
+				}
+			}
+			out.Pressure += W * (ph - pe) * (ph - pe)
+			// Diffusive fluxes of the independent species, then j_n.
+			jh[r], djh[r] = [2]float64{}, 0
+			for i := 0; i < r; i++ {
+				coef := s.DiffusiveFlux(i)
+				var jv [2]float64
+				var dj float64
+				for a := 0; a < nf; a++ {
+					ci := coef[fd[a]] * fs[a]
+					jv[0] += ci * fq.Val[q*nf+a][0]
+					jv[1] += ci * fq.Val[q*nf+a][1]
+					dj += ci * fq.Div[q*nf+a]
+				}
+				jh[i], djh[i] = jv, dj
+				jh[r][0] -= jv[0]
+				jh[r][1] -= jv[1]
+				djh[r] -= dj
+				mu := s.RelativePotential(i)
+				var mh float64
+				for a := 0; a < nm; a++ {
+					mh += mu[ud[a]] * uq.Val[q*nm+a]
+				}
+				e := mh - (mue[i]/mix.mass[i] - mue[r]/mix.mass[r])
+				out.Potential[i] += W * e * e
+			}
+			s.conc(xq, c, gc)
+			divv := gv[0][0] + gv[1][1]
+			for i := 0; i < n; i++ {
+				Mi := mix.mass[i]
+				ri := Mi * c[i]
+				J := [2]float64{jh[i][0] + ri*v[0], jh[i][1] + ri*v[1]}
+				divJ := djh[i] + ri*divv + Mi*(gc[i][0]*v[0]+gc[i][1]*v[1])
+				ex, ey := J[0]-Je[i][0], J[1]-Je[i][1]
+				out.Flux[i] += W * (ex*ex + ey*ey)
+				out.FluxDiv[i] += W * (divJ - divJe[i]) * (divJ - divJe[i])
+			}
+		}
+	}
+	out.VelocityL2 = math.Sqrt(out.VelocityL2)
+	out.VelocityH1 = math.Sqrt(out.VelocityH1)
+	out.Pressure = math.Sqrt(out.Pressure)
+	for i := 0; i < n; i++ {
+		out.Flux[i] = math.Sqrt(out.Flux[i])
+		out.FluxDiv[i] = math.Sqrt(out.FluxDiv[i])
+	}
+	for i := range out.Potential {
+		out.Potential[i] = math.Sqrt(out.Potential[i])
+	}
+	return out
+}
+
+// Conservation returns, per species, the largest element balance defect
+// |int_T (div J_i,h - M_i r_i)| of the total flux J_i,h = j_i,h + rho_i v_h,
+// relative to the sum over the mesh of int_T |div J_i,h| + |M_i r_i|. The
+// integrals use the assembly's triangle rule, so the defect is that of the
+// discrete equations: rounding for the first n-1 species; for the last one,
+// exact only when the pressure space holds the element indicators.
+func (s *DiffusiveFluxSolution) Conservation() []float64 {
+	d := s.d
+	n, r := d.n, d.r
+	mix := d.prob.Mixture
+	nv, nf := d.V.LocalLen(), d.F.LocalLen()
+	c := make([]float64, n)
+	gc := make([][2]float64, n)
+	prod := make([]float64, n)
+	djh := make([]float64, n)
+	defect := make([]float64, n)
+	scale := make([]float64, n)
+	worst := make([]float64, n)
+	vx, vy := s.Velocity(0), s.Velocity(1)
+	for t := 0; t < d.m.NumTriangles(); t++ {
+		af := fem.ElementMap(d.m, t)
+		d.vq.Reinit(&af)
+		d.fq.Reinit(&af)
+		vd, fd, fs := d.V.Dofs(t), d.F.Dofs(t), d.F.Signs(t)
+		clear(defect)
+		for q := 0; q < d.vq.NQ; q++ {
+			W, xq := d.vq.W[q], d.vq.X[q]
+			var v [2]float64
+			var divv float64
+			for a := 0; a < nv; a++ {
+				cx, cy := vx[vd[a]], vy[vd[a]]
+				v[0] += cx * d.vq.Val[q*nv+a]
+				v[1] += cy * d.vq.Val[q*nv+a]
+				divv += cx*d.vq.Grad[q*nv+a][0] + cy*d.vq.Grad[q*nv+a][1]
+			}
+			djh[r] = 0
+			for i := 0; i < r; i++ {
+				coef := s.DiffusiveFlux(i)
+				var dj float64
+				for a := 0; a < nf; a++ {
+					dj += coef[fd[a]] * fs[a] * d.fq.Div[q*nf+a]
+				}
+				djh[i] = dj
+				djh[r] -= dj
+			}
+			s.conc(xq, c, gc)
+			clear(prod)
+			if src := d.prob.Source; src != nil && src.Production != nil {
+				src.Production(prod, xq)
+			}
+			for i := 0; i < n; i++ {
+				Mi := mix.mass[i]
+				divJ := djh[i] + Mi*c[i]*divv + Mi*(gc[i][0]*v[0]+gc[i][1]*v[1])
+				defect[i] += W * (divJ - Mi*prod[i])
+				scale[i] += W * (math.Abs(divJ) + math.Abs(Mi*prod[i]))
+			}
+		}
+		for i := 0; i < n; i++ {
+			worst[i] = math.Max(worst[i], math.Abs(defect[i]))
+		}
+	}
+	for i := 0; i < n; i++ {
+		if scale[i] > 0 {
+			worst[i] /= scale[i]
+		}
+	}
+	return worst
+}
