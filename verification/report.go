@@ -56,10 +56,13 @@ type studyJSON struct {
 	Species      int         `json:"species,omitempty"`
 	S            jsonFloat   `json:"S,omitempty"`
 	Beta         jsonFloat   `json:"beta,omitempty"`
+	Formulation  string      `json:"formulation,omitempty"`
 	Method       string      `json:"method,omitempty"`
 	Iterations   []int       `json:"iterations,omitempty"`
 	Conservation []jsonFloat `json:"conservation,omitempty"`
-	MassAverage  []jsonFloat `json:"mass_average,omitempty"`
+	// ConservationLast mirrors Study.ConservationLast.
+	ConservationLast []jsonFloat `json:"conservation_last_species,omitempty"`
+	MassAverage      []jsonFloat `json:"mass_average,omitempty"`
 }
 
 // jsonFloat is a float64 that encodes NaN and ±Inf as null.
@@ -87,14 +90,16 @@ func newStudyJSON(s *Study) studyJSON {
 		PairRates: jsonFloatSlices(s.PairRates),
 		Residuals: jsonFloats(s.Residuals),
 
-		Flavour:      s.Flavour,
-		Species:      s.Species,
-		S:            jsonFloat(s.S),
-		Beta:         jsonFloat(s.Beta),
-		Method:       s.Method,
-		Iterations:   s.Iterations,
-		Conservation: jsonFloats(s.Conservation),
-		MassAverage:  jsonFloats(s.MassAverage),
+		Flavour:          s.Flavour,
+		Species:          s.Species,
+		S:                jsonFloat(s.S),
+		Beta:             jsonFloat(s.Beta),
+		Formulation:      s.Formulation,
+		Method:           s.Method,
+		Iterations:       s.Iterations,
+		Conservation:     jsonFloats(s.Conservation),
+		ConservationLast: jsonFloats(s.ConservationLast),
+		MassAverage:      jsonFloats(s.MassAverage),
 	}
 }
 

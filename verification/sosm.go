@@ -73,6 +73,14 @@ func runSOSM(cfg Config, progress func(level, unknowns int)) (*Study, error) {
 	if !okFl {
 		return nil, fmt.Errorf("verification: unknown sosm flavour %q (valid: nonlinear, frozen, consistent)", flavour)
 	}
+	formulation := orDefault(cfg.Formulation, formulationTotal)
+	if formulation != formulationTotal && formulation != formulationDiffusive {
+		return nil, fmt.Errorf("verification: unknown sosm formulation %q (valid: %s, %s)", formulation, formulationTotal, formulationDiffusive)
+	}
+	diffusive := formulation == formulationDiffusive
+	if diffusive && flavour != "frozen" {
+		return nil, fmt.Errorf("verification: the %s formulation is built for the frozen flavour only, not %q", formulationDiffusive, flavour)
+	}
 	method, err := solver.ParseFixedPointMethod(orDefault(cfg.Method, "anderson"))
 	if err != nil {
 		return nil, fmt.Errorf("verification: %w", err)
@@ -130,12 +138,12 @@ func runSOSM(cfg Config, progress func(level, unknowns int)) (*Study, error) {
 		family = physics.RTFlux
 		fluxRate = float64(k + 1)
 	}
-	if S > 1e-2 {
+	if S > 1e-2 && !diffusive {
 		fluxRate = float64(k + 1)
 	}
 	st := &Study{
 		Problem: "sosm", Variant: cfg.Variant, Degree: k, Mesh: kind,
-		Flavour: flavour, Species: n, S: S, Beta: beta,
+		Flavour: flavour, Species: n, S: S, Beta: beta, Formulation: formulation,
 		Errors:   map[string][]float64{},
 		Expected: map[string]float64{},
 	}
@@ -152,7 +160,14 @@ func runSOSM(cfg Config, progress func(level, unknowns int)) (*Study, error) {
 	for i := 0; i < n; i++ {
 		norm(fmt.Sprintf("flux_L2_s%d", i+1), fluxRate)
 		norm(fmt.Sprintf("flux_Hdiv_s%d", i+1), float64(k+1))
-		norm(fmt.Sprintf("potential_L2_s%d", i+1), float64(k+1))
+		if !diffusive {
+			norm(fmt.Sprintf("potential_L2_s%d", i+1), float64(k+1))
+		} else if i < n-1 {
+			norm(fmt.Sprintf("relative_potential_L2_s%d", i+1), float64(k+1))
+		}
+	}
+	if diffusive {
+		st.Beta = 0
 	}
 	pt := ex.newPoint()
 	at := func(x [2]float64) *sosmPoint { ex.at(pt, x); return pt }
@@ -164,6 +179,16 @@ func runSOSM(cfg Config, progress func(level, unknowns int)) (*Study, error) {
 		prob := sosmProblem(m, mix, ex, k, family, S)
 		prob.Pressure = pair
 		prob.SpeciesAugmentation = beta
+		if diffusive {
+			if err := solveDiffusiveLevel(st, prob, ex, k); err != nil {
+				return nil, fmt.Errorf("verification: sosm level %d: %w", l, err)
+			}
+			st.H = append(st.H, macro.MaxEdgeLength())
+			if progress != nil {
+				progress(l, st.Unknowns[l])
+			}
+			continue
+		}
 		d, err := physics.NewDiscretisation(prob)
 		if err != nil {
 			return nil, fmt.Errorf("verification: sosm level %d: %w", l, err)

@@ -48,6 +48,12 @@ type Config struct {
 	// (physics.Problem.SpeciesAugmentation); negative means none, 0 the
 	// default.
 	Beta float64
+	// Formulation is the sosm problem's choice of flux unknowns:
+	// "total-flux" (the default: species mass fluxes J_i, remedies (a) and
+	// (b) of docs/augmentation.md) or "diffusive-flux" (diffusive fluxes
+	// j_i = J_i - w_i rho v of n-1 species, remedy (c); frozen flavour
+	// only).
+	Formulation string
 }
 
 // Study is the result of a convergence study. Errors and rates are keyed by
@@ -79,6 +85,9 @@ type Study struct {
 	S float64 `json:"S,omitempty"`
 	// Beta is the one-sided species augmentation of the study.
 	Beta float64 `json:"beta,omitempty"`
+	// Formulation names the flux unknowns ("total-flux" or
+	// "diffusive-flux").
+	Formulation string `json:"formulation,omitempty"`
 	// Method names the nonlinear iteration ("" for a frozen study).
 	Method string `json:"method,omitempty"`
 	// Iterations holds the number of nonlinear iterations per level (1
@@ -87,6 +96,13 @@ type Study struct {
 	// Conservation holds per level the largest element-wise species
 	// conservation defect, relative.
 	Conservation []float64 `json:"conservation,omitempty"`
+	// ConservationLast holds per level, for the diffusive-flux
+	// formulation only, the element conservation defect of the last
+	// species, whose flux is minus the sum of the others' diffusive fluxes
+	// plus its convective flux: its balance is the total mass row less the
+	// others', exact per element with Scott–Vogelius and convergent, not
+	// exact, with Taylor–Hood. Conservation then covers the other species.
+	ConservationLast []float64 `json:"conservation_last_species,omitempty"`
 	// MassAverage holds per level ||v - sum J/rho|| relative to the largest of ||v|| and ||J_i/rho||.
 	MassAverage []float64 `json:"mass_average,omitempty"`
 }

@@ -36,7 +36,9 @@ var (
 	meshChoices    = []string{"structured", "perturbed"}
 	formatChoices  = []string{"table", "json"}
 	flavourChoices = []string{"nonlinear", "frozen", "consistent"}
-	methodChoices  = []string{"anderson", "picard", "newton-krylov"}
+	// formulationChoices are the flux unknowns of --problem sosm.
+	formulationChoices = []string{"total-flux", "diffusive-flux"}
+	methodChoices      = []string{"anderson", "picard", "newton-krylov"}
 )
 
 type verifyOptions struct {
@@ -54,11 +56,13 @@ type verifyOptions struct {
 
 	species int
 	flavour string
-	method  string
-	maxIter int
-	groupS  float64
-	regime  string
-	beta    float64
+	// formulation selects the flux unknowns of --problem sosm.
+	formulation string
+	method      string
+	maxIter     int
+	groupS      float64
+	regime      string
+	beta        float64
 
 	thermodynamics string
 }
@@ -96,9 +100,13 @@ pair of levels), expected (theoretical rates, same keys as rates),
 pair_rates (observed rate for every consecutive pair of levels) and
 residuals (relative residual of the linear solve per level). The coupled
 Stokes–Onsager–Stefan–Maxwell problem (sosm) adds flavour, species, S, beta,
-method, iterations (nonlinear iterations per level, 1 for the frozen
+formulation, method, iterations (nonlinear iterations per level, 1 for the frozen
 layer), conservation (largest element-wise species conservation defect per
-level) and mass_average (||v - sum J/rho|| relative to the largest of ||v|| and ||J_i/rho||, per level). When stderr
+level) and mass_average (||v - sum J/rho|| relative to the largest of ||v|| and ||J_i/rho||, per level).
+With --formulation diffusive-flux the unknowns are the diffusive fluxes of
+all species but the last, relative to the mass-average velocity, so
+mass_average is zero by construction and is left out; conservation then
+covers those species, and conservation_last_species the last one. When stderr
 is a terminal, a progress line per solved level is printed there unless
 --quiet: a bar of the work done (counted in unknowns), the level and its
 size and time.`,
@@ -144,6 +152,7 @@ size and time.`,
 	f.Uint64Var(&o.seed, "seed", 1, "seed `S` of the random perturbation (only with --mesh perturbed)")
 	f.IntVar(&o.species, "species", 3, "number `N` of species of --problem sosm (2 to 6)")
 	f.StringVar(&o.flavour, "flavour", "nonlinear", "manufactured `LAYER` of --problem sosm: nonlinear, frozen or consistent")
+	f.StringVar(&o.formulation, "formulation", "total-flux", "flux `UNKNOWNS` of --problem sosm: total-flux (species mass fluxes) or diffusive-flux (fluxes relative to the mass-average velocity; frozen layer only)")
 	f.StringVar(&o.method, "method", "anderson", "nonlinear `METHOD` of --problem sosm: anderson, picard or newton-krylov")
 	f.IntVar(&o.maxIter, "max-iterations", 60, "most nonlinear iterations `M` per level (--problem sosm)")
 	f.Float64Var(&o.groupS, "group-s", 0, "dimensionless group `S` of --problem sosm (0: 1 for frozen, 1e-7 otherwise)")
@@ -232,7 +241,7 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 	if flags.Changed("thermodynamics") {
 		return cfg, fmt.Errorf("--thermodynamics applies only to --problem channel, not to %s", o.problem)
 	}
-	for _, name := range []string{"species", "flavour", "method", "max-iterations", "group-s", "regime", "beta"} {
+	for _, name := range []string{"species", "flavour", "formulation", "method", "max-iterations", "group-s", "regime", "beta"} {
 		if flags.Changed(name) && o.problem != "sosm" {
 			return cfg, fmt.Errorf("--%s applies only to --problem sosm, not to %s", name, o.problem)
 		}
@@ -243,6 +252,15 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 		}
 		if err := checkChoice("flavour", o.flavour, flavourChoices); err != nil {
 			return cfg, err
+		}
+		if err := checkChoice("formulation", o.formulation, formulationChoices); err != nil {
+			return cfg, err
+		}
+		if o.formulation == "diffusive-flux" && o.flavour != "frozen" {
+			return cfg, fmt.Errorf("--formulation diffusive-flux is built for --flavour frozen only, not %s", o.flavour)
+		}
+		if o.formulation == "diffusive-flux" && flags.Changed("beta") {
+			return cfg, errors.New("--beta does not apply to --formulation diffusive-flux, which needs no augmentation")
 		}
 		if err := o.checkIteration(); err != nil {
 			return cfg, err
@@ -265,6 +283,7 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 		}
 		cfg.Species, cfg.Flavour, cfg.Method = o.species, o.flavour, o.method
 		cfg.MaxIterations, cfg.S, cfg.Beta = o.maxIter, o.groupS, o.beta
+		cfg.Formulation = o.formulation
 	}
 
 	return verification.Config{
@@ -274,6 +293,7 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 		MaxIterations: cfg.MaxIterations,
 		S:             cfg.S,
 		Beta:          cfg.Beta,
+		Formulation:   cfg.Formulation,
 		Problem:       o.problem,
 		Variant:       variant,
 		Degree:        o.degree,

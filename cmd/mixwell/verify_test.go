@@ -445,3 +445,40 @@ func TestChannelConfigTakesBeta(t *testing.T) {
 		}
 	}
 }
+
+func TestVerifySOSMFormulation(t *testing.T) {
+	// --formulation reaches the sosm study, and its misuse is named.
+	f := &fakeLib{}
+	d := f.deps()
+	base := d.problems
+	d.problems = func() []verification.ProblemInfo {
+		return append(base(), verification.ProblemInfo{Name: "sosm", Variants: []string{"bdm", "rt", "scott-vogelius"},
+			Degrees: map[string][]int{"bdm": {1, 2, 3}, "rt": {1, 2, 3}, "scott-vogelius": {1, 2, 3}}})
+	}
+	if _, stderr, err := execute(t, d, "verify", "--problem", "sosm", "--degree", "1", "--flavour", "frozen", "--formulation", "diffusive-flux", "--quiet"); err != nil {
+		t.Fatalf("%v\n%s", err, stderr)
+	}
+	if len(f.ran) != 1 || f.ran[0].Formulation != "diffusive-flux" {
+		t.Fatalf("ran %+v, want one sosm study with the diffusive-flux formulation", f.ran)
+	}
+	for _, tc := range []struct {
+		name string
+		args []string
+		want string
+	}{
+		{"unknown", []string{"--problem", "sosm", "--degree", "1", "--flavour", "frozen", "--formulation", "mixed"}, `"mixed"`},
+		{"nonlinear flavour", []string{"--problem", "sosm", "--degree", "1", "--formulation", "diffusive-flux"}, "--flavour frozen only, not nonlinear"},
+		{"with beta", []string{"--problem", "sosm", "--degree", "1", "--flavour", "frozen", "--formulation", "diffusive-flux", "--beta", "0.3"}, "--beta does not apply"},
+		{"other problem", []string{"--problem", "stokes", "--degree", "1", "--formulation", "diffusive-flux"}, "--formulation applies only to --problem sosm"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, stderr, err := execute(t, d, append([]string{"verify"}, tc.args...)...)
+			if err == nil {
+				t.Fatal("no error")
+			}
+			if line := errorLine(t, stderr); !strings.Contains(line, tc.want) {
+				t.Errorf("error line %q does not contain %q", line, tc.want)
+			}
+		})
+	}
+}
