@@ -6,8 +6,8 @@ import (
 	"fmt"
 	"io"
 	"maps"
+	"mixwell/atomicfile"
 	"os"
-	"path/filepath"
 	"slices"
 	"strconv"
 	"strings"
@@ -384,44 +384,5 @@ func ReadFile(path string) (*Mesh, error) {
 // renames it to path, so that path holds either its old content or the
 // complete new mesh, never a partial file. The file gets mode 0644.
 func WriteFile(path string, m *Mesh) error {
-	return writeFileAtomic(path, func(w io.Writer) error { return Write(w, m) })
-}
-
-// writeFileAtomic writes a file through write as WriteFile describes.
-func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
-	dir, base := filepath.Split(path)
-	if dir == "" {
-		dir = "."
-	}
-	f, err := os.CreateTemp(dir, "."+base+".tmp-*")
-	if err != nil {
-		return fmt.Errorf("writing %s: %w", path, errors.Unwrap(err))
-	}
-	tmp := f.Name()
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(tmp)
-		}
-	}()
-	bw := bufio.NewWriterSize(f, 1<<16)
-	if err := write(bw); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if err := bw.Flush(); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if err := f.Chmod(0o644); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if err := f.Sync(); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if err := f.Close(); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if err := os.Rename(tmp, path); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	return nil
+	return atomicfile.Write(path, func(w io.Writer) error { return Write(w, m) })
 }

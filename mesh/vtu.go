@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"mixwell/atomicfile"
 	"strconv"
 )
 
@@ -71,13 +72,13 @@ func WriteVTUBinary(w io.Writer, m *Mesh, point, cell []Field) error {
 // WriteVTUFile writes the output of WriteVTU to the named file atomically
 // (see WriteFile).
 func WriteVTUFile(path string, m *Mesh, point, cell []Field) error {
-	return writeFileAtomic(path, func(w io.Writer) error { return WriteVTU(w, m, point, cell) })
+	return atomicfile.Write(path, func(w io.Writer) error { return WriteVTU(w, m, point, cell) })
 }
 
 // WriteVTUBinaryFile writes the output of WriteVTUBinary to the named file
 // atomically (see WriteFile).
 func WriteVTUBinaryFile(path string, m *Mesh, point, cell []Field) error {
-	return writeFileAtomic(path, func(w io.Writer) error { return WriteVTUBinary(w, m, point, cell) })
+	return atomicfile.Write(path, func(w io.Writer) error { return WriteVTUBinary(w, m, point, cell) })
 }
 
 // fieldArrays checks fields attached to n entities ("point" or "cell") and

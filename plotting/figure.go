@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"image/color"
 	"io"
-	"os"
+	"mixwell/atomicfile"
 	"path/filepath"
 	"strings"
 
@@ -92,47 +92,8 @@ func render(fn, path string, w, h, defW, defH int, drawFig func(c draw.Canvas) e
 	if err := drawFig(draw.New(c)); err != nil {
 		return fmt.Errorf("plotting: %s %q: %w", fn, path, err)
 	}
-	return writeFileAtomic(path, func(out io.Writer) error {
+	return atomicfile.Write(path, func(out io.Writer) error {
 		_, err := c.WriteTo(out)
 		return err
 	})
-}
-
-// writeFileAtomic writes a new file at path through write, via a temporary
-// file in the same directory that is renamed over path only after it has
-// been written, synced and closed without error. On any error path is left
-// as it was and the temporary file is removed.
-func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
-	dir, base := filepath.Split(path)
-	if dir == "" {
-		dir = "."
-	}
-	if base == "" {
-		return fmt.Errorf("plotting: writing %q: no file name", path)
-	}
-	f, err := os.CreateTemp(dir, "."+base+".tmp-*")
-	if err != nil {
-		return fmt.Errorf("plotting: writing %q: %w", path, err)
-	}
-	tmp := f.Name()
-	defer func() {
-		if err != nil {
-			f.Close() // may be closed already; the first error is the one to report
-			os.Remove(tmp)
-			err = fmt.Errorf("plotting: writing %q: %w", path, err)
-		}
-	}()
-	if err = write(f); err != nil {
-		return err
-	}
-	if err = f.Chmod(0o644); err != nil {
-		return err
-	}
-	if err = f.Sync(); err != nil {
-		return err
-	}
-	if err = f.Close(); err != nil {
-		return err
-	}
-	return os.Rename(tmp, path)
 }

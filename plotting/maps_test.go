@@ -3,7 +3,6 @@ package plotting
 import (
 	"bytes"
 	"encoding/xml"
-	"errors"
 	"image"
 	"image/color"
 	"image/png"
@@ -430,28 +429,6 @@ func TestAtomicWrite(t *testing.T) {
 		}
 		if ents, _ := os.ReadDir(parent); len(ents) != 0 {
 			t.Errorf("left %q in the parent directory", ents[0].Name())
-		}
-	})
-
-	t.Run("failing writer keeps old file and leaves no temp", func(t *testing.T) {
-		dir := t.TempDir()
-		path := filepath.Join(dir, "m.png")
-		if err := os.WriteFile(path, []byte("old"), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		boom := errors.New("disk full")
-		err := writeFileAtomic(path, func(w io.Writer) error {
-			w.Write([]byte("half a picture"))
-			return boom
-		})
-		if !errors.Is(err, boom) {
-			t.Fatalf("error %v, want it to wrap %v", err, boom)
-		}
-		if b, _ := os.ReadFile(path); string(b) != "old" {
-			t.Errorf("target now holds %q, want the old content", b)
-		}
-		if ents, _ := os.ReadDir(dir); len(ents) != 1 {
-			t.Errorf("directory holds %d entries, want only the old file", len(ents))
 		}
 	})
 

@@ -6,7 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
+	"mixwell/atomicfile"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -346,7 +346,7 @@ func WritePlot(path string, s *Study) error {
 	if err != nil {
 		return fmt.Errorf("verification: drawing %q: %w", path, err)
 	}
-	return writeFileAtomic(path, func(w io.Writer) error {
+	return atomicfile.Write(path, func(w io.Writer) error {
 		_, err := wt.WriteTo(w)
 		return err
 	})
@@ -385,43 +385,4 @@ func legendLabel(s *Study, name string) string {
 		}
 	}
 	return label
-}
-
-// writeFileAtomic writes a new file at path through write, via a temporary
-// file in the same directory that is renamed over path only after it has
-// been written, synced and closed without error. On any error path is left
-// as it was and the temporary file is removed.
-func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
-	dir, base := filepath.Split(path)
-	if dir == "" {
-		dir = "."
-	}
-	f, err := os.CreateTemp(dir, "."+base+".tmp-*")
-	if err != nil {
-		return fmt.Errorf("verification: writing %q: %w", path, err)
-	}
-	tmp := f.Name()
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(tmp)
-			err = fmt.Errorf("verification: writing %q: %w", path, err)
-		}
-	}()
-	if err = write(f); err != nil {
-		return err
-	}
-	if err = f.Chmod(0o644); err != nil {
-		return err
-	}
-	if err = f.Sync(); err != nil {
-		return err
-	}
-	if err = f.Close(); err != nil {
-		return err
-	}
-	if err = os.Rename(tmp, path); err != nil {
-		return err
-	}
-	return nil
 }

@@ -6,7 +6,6 @@ import (
 	"errors"
 	"fmt"
 	"image/png"
-	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -287,39 +286,6 @@ func TestPlotFormat(t *testing.T) {
 		t.Errorf("WritePlot(conv.pdf) succeeded, want an error")
 	}
 	assertOnlyFiles(t, dir)
-}
-
-// TestWriteFileAtomicKeepsOldFile checks that a failed write leaves an
-// existing file untouched and no temporary file behind.
-func TestWriteFileAtomicKeepsOldFile(t *testing.T) {
-	dir := t.TempDir()
-	path := filepath.Join(dir, "old.png")
-	if err := os.WriteFile(path, []byte("old"), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	boom := errors.New("boom")
-	err := writeFileAtomic(path, func(w io.Writer) error {
-		fmt.Fprint(w, "half a pic")
-		return boom
-	})
-	if !errors.Is(err, boom) {
-		t.Errorf("writeFileAtomic error = %v, want it to wrap %v", err, boom)
-	}
-	if b, _ := os.ReadFile(path); string(b) != "old" {
-		t.Errorf("file content after failed write = %q, want %q", b, "old")
-	}
-	assertOnlyFiles(t, dir, "old.png")
-
-	if err := writeFileAtomic(path, func(w io.Writer) error {
-		_, err := fmt.Fprint(w, "new")
-		return err
-	}); err != nil {
-		t.Fatalf("writeFileAtomic: %v", err)
-	}
-	if b, _ := os.ReadFile(path); string(b) != "new" {
-		t.Errorf("file content after write = %q, want %q", b, "new")
-	}
-	assertOnlyFiles(t, dir, "old.png")
 }
 
 func assertOnlyFiles(t *testing.T, dir string, want ...string) {
