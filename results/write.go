@@ -394,11 +394,11 @@ func mapSize(w, h float64) (width, height int) {
 }
 
 // speciesAugmentation is the beta the solve used: the prepared problem's,
-// or the case's when there is no prepared problem (an outcome built by
-// hand).
+// or, for an outcome built without one, the case's with "auto" resolved
+// as the solve would.
 func speciesAugmentation(o *simulate.Outcome) float64 {
 	if o.Setup.Problem != nil {
 		return o.Setup.Problem.SpeciesAugmentation
 	}
-	return o.Setup.Case.Solver.SpeciesAugmentation
+	return simulate.SpeciesAugmentation(o.Setup.Case)
 }

@@ -241,14 +241,7 @@ func (s *Setup) pose() error {
 		flowThrough = flowThrough || b.Species.Kind == casefile.Outflow
 	}
 	s.relativeComposition = levelInvariant && flowThrough
-	// beta "auto": smaller in flow-through cases, where its residual
-	// accumulates along the flow (physics.FlowThroughSpeciesAugmentation).
-	if c.Solver.SpeciesAugmentation < 0 {
-		p.SpeciesAugmentation = physics.ClosedSpeciesAugmentation
-		if flowThrough {
-			p.SpeciesAugmentation = physics.FlowThroughSpeciesAugmentation
-		}
-	}
+	p.SpeciesAugmentation = SpeciesAugmentation(c)
 	for _, b := range c.Boundaries {
 		tag, ok := s.tagOf[b.Name]
 		if !ok {
@@ -548,4 +541,22 @@ func (s *Setup) openPressure(m *mesh.Mesh, tag int, p0 float64) (func([2]float64
 	return func(x [2]float64) float64 {
 		return p0 + rho*(g[0]*(x[0]-mid[0])+g[1]*(x[1]-mid[1]))
 	}, nil
+}
+
+// SpeciesAugmentation returns the one-sided species augmentation beta that
+// a solve of c uses: the case's value, or for "auto"
+// (casefile.AutoSpeciesAugmentation) physics.FlowThroughSpeciesAugmentation
+// when some boundary has the outflow species condition, where the
+// augmentation's residual accumulates along the flow, and
+// physics.ClosedSpeciesAugmentation otherwise (docs/augmentation.md).
+func SpeciesAugmentation(c *casefile.Case) float64 {
+	if c.Solver.SpeciesAugmentation >= 0 {
+		return c.Solver.SpeciesAugmentation
+	}
+	for _, b := range c.Boundaries {
+		if b.Species.Kind == casefile.Outflow {
+			return physics.FlowThroughSpeciesAugmentation
+		}
+	}
+	return physics.ClosedSpeciesAugmentation
 }

@@ -296,6 +296,9 @@ func TestSpeciesAugmentationAuto(t *testing.T) {
 		if got := s.Problem.SpeciesAugmentation; got != tc.want {
 			t.Errorf("%s: beta %g, want %g", tc.name, got, tc.want)
 		}
+		if got := SpeciesAugmentation(s.Case); got != tc.want {
+			t.Errorf("%s: SpeciesAugmentation of the case %g, want %g", tc.name, got, tc.want)
+		}
 	}
 	if physics.FlowThroughSpeciesAugmentation != 0.3 || physics.ClosedSpeciesAugmentation != 1 {
 		t.Errorf("defaults %g and %g differ from the measured choice 0.3 and 1 (docs/augmentation.md)",
