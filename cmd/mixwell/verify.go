@@ -188,8 +188,12 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 
 	variant := ""
 	flags := cmd.Flags()
+	sosmPair, err := o.sosmPair(flags.Changed)
+	if err != nil {
+		return cfg, err
+	}
 	for _, v := range variantFlags {
-		if !flags.Changed(v.flag) {
+		if !flags.Changed(v.flag) || v.flag == "pair" && sosmPair {
 			continue
 		}
 		value := o.flux
@@ -197,7 +201,11 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 			value = o.pair
 		}
 		if !slices.Contains(v.problems, o.problem) {
-			return cfg, fmt.Errorf("--%s applies only to --problem %s, not to %s", v.flag, strings.Join(v.problems, " or "), o.problem)
+			allowed := v.problems
+			if v.flag == "pair" {
+				allowed = append(slices.Clone(allowed), "sosm") // handled by sosmPair
+			}
+			return cfg, fmt.Errorf("--%s applies only to --problem %s, not to %s", v.flag, strings.Join(allowed, " or "), o.problem)
 		}
 		if !slices.Contains(info.Variants, value) {
 			return cfg, fmt.Errorf("--%s %q is not available (valid: %s)", v.flag, value, listOrNone(info.Variants))
@@ -206,6 +214,12 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 	}
 	if variant == "" && len(info.Variants) > 0 {
 		variant = info.Variants[0]
+	}
+	if sosmPair && o.pair == "scott-vogelius" {
+		if variant != "bdm" && variant != "scott-vogelius" {
+			return cfg, fmt.Errorf("--pair scott-vogelius for --problem sosm comes with BDM fluxes, not --flux %s", variant)
+		}
+		variant = "scott-vogelius"
 	}
 
 	what := "problem " + o.problem
@@ -453,9 +467,25 @@ func variantUsage(v variantFlag, infos []verification.ProblemInfo) string {
 	if v.flag == "flux" && slices.Contains(choices, "scott-vogelius") {
 		// The sosm study names its Scott–Vogelius variant among the
 		// fluxes: it changes the velocity–pressure pair, not the flux.
-		u += "; for sosm, scott-vogelius means BDM fluxes with the Scott–Vogelius velocity–pressure pair instead of Taylor–Hood"
+		u += "; for sosm, scott-vogelius means BDM fluxes with the Scott–Vogelius velocity–pressure pair instead of Taylor–Hood (the same as --pair scott-vogelius)"
+	}
+	if v.flag == "pair" {
+		u += "; for --problem sosm, taylor-hood (the default) or scott-vogelius, with BDM fluxes"
 	}
 	return u
+}
+
+// sosmPair reports whether --pair was given for --problem sosm, where it
+// selects the velocity–pressure pair of the coupled study (taylor-hood or
+// scott-vogelius), and checks its value.
+func (o *verifyOptions) sosmPair(changed func(name string) bool) (bool, error) {
+	if o.problem != "sosm" || !changed("pair") {
+		return false, nil
+	}
+	if o.pair != "taylor-hood" && o.pair != "scott-vogelius" {
+		return false, fmt.Errorf("--pair %q is not available for --problem sosm (valid: scott-vogelius, taylor-hood)", o.pair)
+	}
+	return true, nil
 }
 
 func problemNames(infos []verification.ProblemInfo) []string {

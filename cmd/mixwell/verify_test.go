@@ -449,12 +449,7 @@ func TestChannelConfigTakesBeta(t *testing.T) {
 func TestVerifySOSMFormulation(t *testing.T) {
 	// --formulation reaches the sosm study, and its misuse is named.
 	f := &fakeLib{}
-	d := f.deps()
-	base := d.problems
-	d.problems = func() []verification.ProblemInfo {
-		return append(base(), verification.ProblemInfo{Name: "sosm", Variants: []string{"bdm", "rt", "scott-vogelius"},
-			Degrees: map[string][]int{"bdm": {1, 2, 3}, "rt": {1, 2, 3}, "scott-vogelius": {1, 2, 3}}})
-	}
+	d := sosmDeps(f)
 	if _, stderr, err := execute(t, d, "verify", "--problem", "sosm", "--degree", "1", "--flavour", "frozen", "--formulation", "diffusive-flux", "--quiet"); err != nil {
 		t.Fatalf("%v\n%s", err, stderr)
 	}
@@ -480,5 +475,57 @@ func TestVerifySOSMFormulation(t *testing.T) {
 				t.Errorf("error line %q does not contain %q", line, tc.want)
 			}
 		})
+	}
+}
+
+// sosmDeps is f's dependencies with the sosm problem registered too.
+func sosmDeps(f *fakeLib) deps {
+	d := f.deps()
+	base := d.problems
+	d.problems = func() []verification.ProblemInfo {
+		return append(base(), verification.ProblemInfo{Name: "sosm", Variants: []string{"bdm", "rt", "scott-vogelius"},
+			Degrees: map[string][]int{"bdm": {1, 2, 3}, "rt": {1, 2, 3}, "scott-vogelius": {1, 2, 3}}})
+	}
+	return d
+}
+
+func TestVerifySOSMPair(t *testing.T) {
+	// --pair chooses the velocity–pressure pair of the sosm study as it
+	// does for stokes; --flux scott-vogelius stays its synonym.
+	for _, tc := range []struct {
+		args    []string
+		variant string
+	}{
+		{[]string{"--pair", "scott-vogelius"}, "scott-vogelius"},
+		{[]string{"--pair", "scott-vogelius", "--flux", "bdm"}, "scott-vogelius"},
+		{[]string{"--flux", "scott-vogelius"}, "scott-vogelius"},
+		{[]string{"--pair", "taylor-hood", "--flux", "rt"}, "rt"},
+		{[]string{"--pair", "taylor-hood"}, "bdm"},
+	} {
+		f := &fakeLib{}
+		args := append([]string{"verify", "--problem", "sosm", "--degree", "1", "--quiet"}, tc.args...)
+		if _, stderr, err := execute(t, sosmDeps(f), args...); err != nil {
+			t.Fatalf("%v: %v\n%s", tc.args, err, stderr)
+		}
+		if len(f.ran) != 1 || f.ran[0].Variant != tc.variant {
+			t.Errorf("%v: ran %+v, want variant %s", tc.args, f.ran, tc.variant)
+		}
+	}
+	for _, tc := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--problem", "sosm", "--pair", "scott-vogelius", "--flux", "rt"}, "comes with BDM fluxes, not --flux rt"},
+		{[]string{"--problem", "sosm", "--pair", "mini"}, `--pair "mini" is not available for --problem sosm`},
+		{[]string{"--problem", "mixed-poisson", "--pair", "taylor-hood"}, "--pair applies only to --problem stokes or sosm"},
+	} {
+		_, stderr, err := execute(t, sosmDeps(&fakeLib{}), append([]string{"verify", "--degree", "1"}, tc.args...)...)
+		if err == nil {
+			t.Errorf("%v: no error", tc.args)
+			continue
+		}
+		if line := errorLine(t, stderr); !strings.Contains(line, tc.want) {
+			t.Errorf("%v: error line %q does not contain %q", tc.args, line, tc.want)
+		}
 	}
 }
