@@ -72,6 +72,8 @@ type DiffusiveFlux struct {
 	// (-1: none).
 	pinnedP int
 	pinnedM []int
+	// lu keeps the ordering and symbolic analysis between solves.
+	lu *solver.LU
 }
 
 // NewDiffusiveFlux builds the spaces, the essential set and the sparsity
@@ -237,7 +239,8 @@ func (s *DiffusiveFluxSolution) RelativePotential(i int) []float64 {
 }
 
 // SolveFrozen assembles and solves one step with the concentrations (and
-// their gradients) given by conc, a function of position.
+// their gradients) given by conc, a function of position. A second call
+// refactorises the same pattern, keeping the first call's ordering.
 func (d *DiffusiveFlux) SolveFrozen(conc func(x [2]float64, c []float64, gradc [][2]float64)) (*DiffusiveFluxSolution, error) {
 	if err := d.setFluxData(conc); err != nil {
 		return nil, err
@@ -246,12 +249,17 @@ func (d *DiffusiveFlux) SolveFrozen(conc func(x [2]float64, c []float64, gradc [
 	if err != nil {
 		return nil, err
 	}
-	lu, err := solver.FactorLU(A, nil)
+	if d.lu == nil {
+		d.lu, err = solver.FactorLU(A, nil)
+	} else {
+		err = d.lu.Refactor(A)
+	}
 	if err != nil {
+		d.lu = nil
 		return nil, fmt.Errorf("physics: factorising the diffusive-flux system (%d unknowns, %d non-zeros): %w", len(b), A.NNZ(), err)
 	}
 	x := make([]float64, len(b))
-	res, err := lu.SolveRefinedTo(x, A, b, 2)
+	res, err := d.lu.SolveRefinedTo(x, A, b, 2)
 	if err != nil {
 		return nil, fmt.Errorf("physics: solving the diffusive-flux system: %w", err)
 	}
