@@ -2,7 +2,6 @@ package atomicfile
 
 import (
 	"errors"
-	"fmt"
 	"io"
 	"os"
 	"path/filepath"
@@ -10,51 +9,87 @@ import (
 	"testing"
 )
 
-func TestWriteReplacesWholeFile(t *testing.T) {
-	path := filepath.Join(t.TempDir(), "out.txt")
-	if err := os.WriteFile(path, []byte("old"), 0o600); err != nil {
-		t.Fatal(err)
-	}
-	if err := Write(path, func(w io.Writer) error { _, err := fmt.Fprint(w, "new"); return err }); err != nil {
-		t.Fatal(err)
-	}
-	got, err := os.ReadFile(path)
+// listDir returns the names in dir.
+func listDir(t *testing.T, dir string) []string {
+	t.Helper()
+	entries, err := os.ReadDir(dir)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if string(got) != "new" {
-		t.Errorf("content %q, want %q", got, "new")
+	var names []string
+	for _, e := range entries {
+		names = append(names, e.Name())
 	}
-	fi, err := os.Stat(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if fi.Mode().Perm() != 0o644 {
-		t.Errorf("mode %v, want 0644", fi.Mode().Perm())
-	}
+	return names
 }
 
-func TestWriteFailureKeepsOldFile(t *testing.T) {
-	dir := t.TempDir()
-	path := filepath.Join(dir, "out.txt")
-	if err := os.WriteFile(path, []byte("old"), 0o644); err != nil {
-		t.Fatal(err)
-	}
+func TestWrite(t *testing.T) {
 	boom := errors.New("boom")
-	err := Write(path, func(w io.Writer) error {
-		fmt.Fprint(w, "half")
-		return boom
-	})
-	if !errors.Is(err, boom) || !strings.Contains(err.Error(), "writing "+path) {
-		t.Errorf("error %v, want one that wraps %v and names %s", err, boom, path)
-	}
-	got, _ := os.ReadFile(path)
-	if string(got) != "old" {
-		t.Errorf("content after a failed write %q, want %q", got, "old")
-	}
-	entries, _ := os.ReadDir(dir)
-	if len(entries) != 1 {
-		t.Errorf("directory holds %d entries after a failed write, want 1 (no temporary file left)", len(entries))
+	for _, tc := range []struct {
+		name        string
+		existing    string // content of the target before, "" for none
+		dirAsTarget bool   // the target is a directory: the rename fails
+		write       func(w io.Writer) error
+		wantErr     bool
+		want        string // content of the target after ("" for absent)
+	}{
+		{name: "new file", write: func(w io.Writer) error { _, err := io.WriteString(w, "hello\n"); return err },
+			want: "hello\n"},
+		{name: "replaces", existing: "old", write: func(w io.Writer) error { _, err := io.WriteString(w, "new"); return err },
+			want: "new"},
+		{name: "writer fails, no file", write: func(w io.Writer) error { io.WriteString(w, "partial"); return boom },
+			wantErr: true},
+		{name: "writer fails, old content kept", existing: "old",
+			write: func(w io.Writer) error { io.WriteString(w, "partial"); return boom }, wantErr: true, want: "old"},
+		{name: "rename fails", dirAsTarget: true,
+			write: func(w io.Writer) error { _, err := io.WriteString(w, "x"); return err }, wantErr: true},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := t.TempDir()
+			path := filepath.Join(dir, "out.txt")
+			if tc.existing != "" {
+				if err := os.WriteFile(path, []byte(tc.existing), 0o644); err != nil {
+					t.Fatal(err)
+				}
+			}
+			if tc.dirAsTarget {
+				if err := os.Mkdir(path, 0o755); err != nil {
+					t.Fatal(err)
+				}
+				// A non-empty directory cannot be replaced by a file.
+				if err := os.WriteFile(filepath.Join(path, "keep"), nil, 0o644); err != nil {
+					t.Fatal(err)
+				}
+			}
+			err := Write(path, tc.write)
+			if (err != nil) != tc.wantErr {
+				t.Fatalf("Write error = %v, want error %v", err, tc.wantErr)
+			}
+			if err != nil && !strings.Contains(err.Error(), path) {
+				t.Errorf("error %q does not name the path %s", err, path)
+			}
+			if tc.want == "" && !tc.dirAsTarget {
+				if _, err := os.Stat(path); !errors.Is(err, os.ErrNotExist) {
+					t.Errorf("target exists after failure (stat: %v)", err)
+				}
+			} else if tc.want != "" {
+				got, err := os.ReadFile(path)
+				if err != nil || string(got) != tc.want {
+					t.Errorf("target holds %q (%v), want %q", got, err, tc.want)
+				}
+			}
+			for _, n := range listDir(t, dir) {
+				if strings.Contains(n, ".tmp-") {
+					t.Errorf("temporary file %s left behind", n)
+				}
+			}
+			if tc.want != "" {
+				fi, err := os.Stat(path)
+				if err == nil && fi.Mode().Perm() != 0o644 {
+					t.Errorf("mode %v, want 0644", fi.Mode().Perm())
+				}
+			}
+		})
 	}
 }
 
