@@ -95,25 +95,7 @@ func (d *decoder) boundaries(n *yaml.Node, sp *speciesSet, geo *geometryNames, c
 
 // velocity decodes a velocity condition: a kind, or a mapping with type.
 func (d *decoder) velocity(n *yaml.Node, path string, v *VelocityBC) {
-	var m *mapping
-	var kn *yaml.Node
-	if n.Kind == yaml.ScalarNode {
-		kn = n
-	} else {
-		m = d.mapping(n, path, nil)
-		if m == nil {
-			return
-		}
-		kn = d.require(m, "type", "give the velocity condition: "+strings.Join(velocityKinds, ", "))
-		if kn == nil {
-			return
-		}
-	}
-	tp := path
-	if m != nil {
-		tp = join(path, "type")
-	}
-	w, ok := d.word(kn, tp, velocityKinds)
+	m, w, ok := d.conditionKind(n, path, "velocity", velocityKinds)
 	if !ok {
 		return
 	}
@@ -160,25 +142,7 @@ func (d *decoder) velocity(n *yaml.Node, path string, v *VelocityBC) {
 
 // speciesBC decodes a species condition: a kind, or a mapping with type.
 func (d *decoder) speciesBC(n *yaml.Node, path string, sp *speciesSet, boundary string, s *SpeciesBC) {
-	var m *mapping
-	var kn *yaml.Node
-	if n.Kind == yaml.ScalarNode {
-		kn = n
-	} else {
-		m = d.mapping(n, path, nil)
-		if m == nil {
-			return
-		}
-		kn = d.require(m, "type", "give the species condition: "+strings.Join(speciesKinds, ", "))
-		if kn == nil {
-			return
-		}
-	}
-	tp := path
-	if m != nil {
-		tp = join(path, "type")
-	}
-	w, ok := d.word(kn, tp, speciesKinds)
+	m, w, ok := d.conditionKind(n, path, "species", speciesKinds)
 	if !ok {
 		return
 	}
@@ -396,4 +360,24 @@ func anyTrue(v []bool) bool {
 		}
 	}
 	return false
+}
+
+// conditionKind decodes the kind of a boundary condition written either as
+// a bare word or as a mapping with the key type, from the allowed kinds. It
+// returns the mapping (nil for a bare word) and the kind; ok is false when
+// an error has been recorded.
+func (d *decoder) conditionKind(n *yaml.Node, path, what string, kinds []string) (m *mapping, kind string, ok bool) {
+	kn := n
+	tp := path
+	if n.Kind != yaml.ScalarNode {
+		if m = d.mapping(n, path, nil); m == nil {
+			return nil, "", false
+		}
+		if kn = d.require(m, "type", "give the "+what+" condition: "+strings.Join(kinds, ", ")); kn == nil {
+			return nil, "", false
+		}
+		tp = join(path, "type")
+	}
+	kind, ok = d.word(kn, tp, kinds)
+	return m, kind, ok
 }
