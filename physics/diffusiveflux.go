@@ -278,6 +278,15 @@ func (d *DiffusiveFlux) SolveFrozen(conc func(x [2]float64, c []float64, gradc [
 	return s, nil
 }
 
+// LUStats returns the statistics of the last factorisation (zero before
+// the first solve).
+func (d *DiffusiveFlux) LUStats() solver.LUStats {
+	if d.lu == nil {
+		return solver.LUStats{}
+	}
+	return d.lu.Stats()
+}
+
 // setFluxData sets the essential normal moments j_i.n = J_i.n - rho_i v.n on
 // flux boundaries with the frozen partial densities.
 func (d *DiffusiveFlux) setFluxData(conc func(x [2]float64, c []float64, gradc [][2]float64)) error {

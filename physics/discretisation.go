@@ -939,6 +939,15 @@ func scaleInto(dst, a []float64, s float64) {
 	}
 }
 
+// LUStats returns the statistics of the last factorisation (zero before
+// the first solve).
+func (d *Discretisation) LUStats() solver.LUStats {
+	if d.lu == nil {
+		return solver.LUStats{}
+	}
+	return d.lu.Stats()
+}
+
 // solveLinear factorises (or refactorises, keeping the symbolic analysis)
 // and solves the assembled system, returning the solution and the relative
 // residual.
