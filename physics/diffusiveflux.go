@@ -38,10 +38,12 @@ import (
 // space holds the element indicators (Scott–Vogelius); with Taylor–Hood its
 // element defects converge but do not vanish.
 //
-// This type solves one step with frozen concentrations: it is the
-// measurement of docs/augmentation.md, not yet a nonlinear solver. Outflow,
-// slip and Stefan-wall conditions, and boundaries that mix flux and
-// potential data, are not built for it and are rejected by name.
+// SolveFrozen solves one step with frozen concentrations (the measurement
+// of docs/augmentation.md); SolveNonlinear iterates with the ideal gas,
+// taking the level of the potentials from the equation of state. Outflow is
+// zero diffusive flux, j_i.n = 0, essential. Slip and Stefan-wall
+// conditions, and boundaries that mix flux and potential data, are not
+// built for it and are rejected by name.
 
 // Block numbers of a DiffusiveFlux layout: vx, vy, p, then j_1..j_{n-1},
 // then m_1..m_{n-1}.
@@ -68,12 +70,28 @@ type DiffusiveFlux struct {
 	// fluxTags lists the tags with flux data, potentialTags those with
 	// potential data.
 	fluxTags, potentialTags []int
+	// stefan lists the Stefan walls with flux data for every species (an
+	// inlet of given mass fluxes, or a wall with given exchange), whose
+	// normal velocity sum_i J_i.n / rho each solve sets from the frozen
+	// density.
+	stefan []dfStefan
 	// pinnedP and pinnedM are the unknowns fixed to remove constant modes
 	// (-1: none).
 	pinnedP int
 	pinnedM []int
 	// lu keeps the ordering and symbolic analysis between solves.
 	lu *solver.LU
+}
+
+// dfStefan is a Stefan wall of the diffusive-flux discretisation: its tag,
+// the velocity component normal to it, the outward normal, and the
+// unknowns of that component that it sets (corners held by a given
+// velocity excluded).
+type dfStefan struct {
+	tag    int
+	comp   int
+	normal [2]float64
+	dofs   map[int]bool
 }
 
 // NewDiffusiveFlux builds the spaces, the essential set and the sparsity
@@ -120,13 +138,23 @@ func (d *DiffusiveFlux) Len() int { return d.lay.Len() }
 func (d *DiffusiveFlux) fixEssential() error {
 	p, m := d.prob, d.m
 	allVelocityEssential := true
+	// Velocity unknowns held by given velocities win at corners.
+	given := map[int]bool{}
+	for _, t := range m.Tags() {
+		if p.Boundary[t].Velocity.Kind == VelocityGiven {
+			dofs, err := d.V.BoundaryDofs(t)
+			if err != nil {
+				return err
+			}
+			for _, g := range dofs {
+				given[g] = true
+			}
+		}
+	}
 	for _, t := range m.Tags() {
 		bc := p.Boundary[t]
 		kind := bc.Species[0].Kind
 		for i, sc := range bc.Species {
-			if sc.Kind == SpeciesOutflow {
-				return fmt.Errorf("physics: boundary %s: the outflow condition is not built for the diffusive-flux formulation", tagLabel(m, t))
-			}
 			if sc.Relative {
 				return fmt.Errorf("physics: boundary %s, species %q: relative potential data are not built for the diffusive-flux formulation", tagLabel(m, t), p.Mixture.Name(i))
 			}
@@ -142,18 +170,55 @@ func (d *DiffusiveFlux) fixEssential() error {
 			}
 		case VelocityTraction:
 			if bc.Velocity.NoTangential {
-				return fmt.Errorf("physics: boundary %s: the outlet with zero tangential velocity is not built for the diffusive-flux formulation", tagLabel(m, t))
+				c, err := slipComponent(m, t)
+				if err != nil {
+					return err
+				}
+				dofs, err := d.V.BoundaryDofs(t)
+				if err != nil {
+					return err
+				}
+				for _, g := range dofs {
+					d.sys.Fix(d.lay.Offset(blockVX+1-c)+g, 0)
+				}
 			}
 			allVelocityEssential = false
+		case VelocityStefan:
+			// Only with flux data for every species: with composition
+			// data the wall velocity would be an unknown tied to the
+			// fluxes, which needs boundary multipliers (docs/augmentation.md).
+			if kind != SpeciesFlux {
+				return fmt.Errorf("physics: boundary %s: a Stefan wall with %s data is not built for the diffusive-flux formulation: its velocity would be an unknown tied to the fluxes, which needs boundary multipliers (only a Stefan wall with flux data for every species is, such as an inlet of given mass fluxes)", tagLabel(m, t), kind)
+			}
+			c, err := slipComponent(m, t)
+			if err != nil {
+				return err
+			}
+			nrm, _ := fem.OutwardNormal(m, m.BoundaryEdges(t)[0])
+			dofs, err := d.V.BoundaryDofs(t)
+			if err != nil {
+				return err
+			}
+			sw := dfStefan{tag: t, comp: c, normal: nrm, dofs: map[int]bool{}}
+			for _, g := range dofs {
+				if given[g] {
+					continue
+				}
+				d.sys.Fix(d.lay.Offset(blockVX+1-c)+g, 0)
+				d.sys.Fix(d.lay.Offset(blockVX+c)+g, 0)
+				sw.dofs[g] = true
+			}
+			d.stefan = append(d.stefan, sw)
 		default:
-			return fmt.Errorf("physics: boundary %s: the %s condition is not built for the diffusive-flux formulation (given velocity or traction only)", tagLabel(m, t), bc.Velocity.Kind)
+			return fmt.Errorf("physics: boundary %s: the %s condition is not built for the diffusive-flux formulation (given velocity, traction, or a Stefan wall with flux data)", tagLabel(m, t), bc.Velocity.Kind)
 		}
 		if kind == SpeciesPotential {
 			d.potentialTags = append(d.potentialTags, t)
 			continue
 		}
-		// Flux data fix j_i.n = J_i.n - rho_i v.n, which needs v.n known.
-		if bc.Velocity.Kind != VelocityGiven {
+		// Flux data fix j_i.n = J_i.n - rho_i v.n, which needs v.n known;
+		// outflow fixes j_i.n = 0 (zero diffusive flux).
+		if kind != SpeciesOutflow && bc.Velocity.Kind == VelocityTraction {
 			return fmt.Errorf("physics: boundary %s has species flux data on an open (traction) boundary; the diffusive-flux formulation needs the velocity given there", tagLabel(m, t))
 		}
 		d.fluxTags = append(d.fluxTags, t)
@@ -210,6 +275,29 @@ func (d *DiffusiveFlux) couple() {
 	}
 }
 
+// diffusiveField supplies the frozen concentrations of one step.
+type diffusiveField interface {
+	// atQuad writes c and grad c at quadrature point q (physical point x)
+	// of triangle t; the discretisation's triangle tables are set for t.
+	atQuad(t, q int, x [2]float64, c []float64, gc [][2]float64) error
+	// at writes c and grad c at the physical point x of triangle t (it may
+	// allocate).
+	at(t int, x [2]float64, c []float64, gc [][2]float64) error
+}
+
+// positionField freezes concentrations given as a function of position.
+type positionField func(x [2]float64, c []float64, gradc [][2]float64)
+
+func (f positionField) atQuad(t, q int, x [2]float64, c []float64, gc [][2]float64) error {
+	f(x, c, gc)
+	return nil
+}
+
+func (f positionField) at(t int, x [2]float64, c []float64, gc [][2]float64) error {
+	f(x, c, gc)
+	return nil
+}
+
 // DiffusiveFluxSolution is the result of one frozen diffusive-flux step.
 type DiffusiveFluxSolution struct {
 	d *DiffusiveFlux
@@ -218,7 +306,7 @@ type DiffusiveFluxSolution struct {
 	X []float64
 	// LinearResidual is the relative residual of the linear solve.
 	LinearResidual float64
-	conc           func(x [2]float64, c []float64, gradc [][2]float64)
+	field          diffusiveField
 }
 
 // Velocity returns the coefficients of velocity component c in d.V.
@@ -242,10 +330,15 @@ func (s *DiffusiveFluxSolution) RelativePotential(i int) []float64 {
 // their gradients) given by conc, a function of position. A second call
 // refactorises the same pattern, keeping the first call's ordering.
 func (d *DiffusiveFlux) SolveFrozen(conc func(x [2]float64, c []float64, gradc [][2]float64)) (*DiffusiveFluxSolution, error) {
-	if err := d.setFluxData(conc); err != nil {
+	return d.solveField(positionField(conc))
+}
+
+// solveField assembles and solves one step with the concentrations of f.
+func (d *DiffusiveFlux) solveField(f diffusiveField) (*DiffusiveFluxSolution, error) {
+	if err := d.setFluxData(f); err != nil {
 		return nil, err
 	}
-	A, b, err := d.assemble(conc)
+	A, b, err := d.assemble(f)
 	if err != nil {
 		return nil, err
 	}
@@ -266,7 +359,7 @@ func (d *DiffusiveFlux) SolveFrozen(conc func(x [2]float64, c []float64, gradc [
 	if math.IsNaN(res) || res > 1e-6 {
 		return nil, fmt.Errorf("physics: diffusive-flux linear solve inaccurate: relative residual %.3g", res)
 	}
-	s := &DiffusiveFluxSolution{d: d, X: x, LinearResidual: res, conc: conc}
+	s := &DiffusiveFluxSolution{d: d, X: x, LinearResidual: res, field: f}
 	if d.pinnedP >= 0 {
 		shiftMean(d.P, s.Pressure())
 	}
@@ -288,27 +381,113 @@ func (d *DiffusiveFlux) LUStats() solver.LUStats {
 }
 
 // setFluxData sets the essential normal moments j_i.n = J_i.n - rho_i v.n on
-// flux boundaries with the frozen partial densities.
-func (d *DiffusiveFlux) setFluxData(conc func(x [2]float64, c []float64, gradc [][2]float64)) error {
-	p, n := d.prob, d.n
+// flux boundaries with the frozen partial densities, and j_i.n = 0 on
+// outflow boundaries (species leave with the composition of their element).
+func (d *DiffusiveFlux) setFluxData(f diffusiveField) error {
+	p, n, m := d.prob, d.n, d.m
 	c := make([]float64, n)
 	gc := make([][2]float64, n)
 	for _, t := range d.fluxTags {
 		bc := p.Boundary[t]
+		edges := m.BoundaryEdges(t)
+		// triangleAt returns the triangle whose boundary edge of tag t
+		// holds the edge point x.
+		triangleAt := func(x [2]float64) int {
+			best, bestD := -1, math.Inf(1)
+			for _, e := range edges {
+				a, b := m.Points[m.Edges[e][0]], m.Points[m.Edges[e][1]]
+				ex, ey := b[0]-a[0], b[1]-a[1]
+				s := ((x[0]-a[0])*ex + (x[1]-a[1])*ey) / (ex*ex + ey*ey)
+				s = math.Max(0, math.Min(1, s))
+				if dd := math.Hypot(a[0]+s*ex-x[0], a[1]+s*ey-x[1]); dd < bestD {
+					best, bestD = m.EdgeTriangles[e][0], dd
+				}
+			}
+			return best
+		}
+		stefan := bc.Velocity.Kind == VelocityStefan
+		// total returns sum_k J_k.n and the frozen density at x.
+		total := func(x, nrm [2]float64) (float64, float64, error) {
+			if err := f.at(triangleAt(x), x, c, gc); err != nil {
+				return 0, 0, err
+			}
+			var T, rho float64
+			for k := 0; k < n; k++ {
+				if g := bc.Species[k].Flux; g != nil {
+					T += g(x, nrm)
+				}
+				rho += p.Mixture.mass[k] * c[k]
+			}
+			return T, rho, nil
+		}
+		if stefan {
+			// Normal velocity sum_k J_k.n / rho at the velocity nodes.
+			sw := d.stefanOf(t)
+			var bad error
+			dofs, vals, err := fem.BoundaryValues(d.V, []int{t}, func(x [2]float64) float64 {
+				T, rho, err := total(x, sw.normal)
+				if err != nil && bad == nil {
+					bad = err
+				}
+				return T / rho * sw.normal[sw.comp]
+			})
+			if err != nil {
+				return err
+			}
+			if bad != nil {
+				return bad
+			}
+			for a, g := range dofs {
+				if sw.dofs[g] {
+					d.sys.Fix(d.lay.Offset(blockVX+sw.comp)+g, vals[a])
+				}
+			}
+		}
 		for i := 0; i < d.r; i++ {
 			sp := i
 			g, vel := bc.Species[i].Flux, bc.Velocity.Velocity
+			if bc.Species[i].Kind == SpeciesOutflow {
+				g, vel = nil, nil
+			}
+			if stefan {
+				// j_i.n = J_i.n - w_i sum_k J_k.n.
+				var bad error
+				dofs, vals, err := fem.BoundaryNormalMoments(d.F, []int{t}, func(x, nrm [2]float64) float64 {
+					var jn float64
+					if g != nil {
+						jn = g(x, nrm)
+					}
+					T, rho, err := total(x, nrm)
+					if err != nil && bad == nil {
+						bad = err
+					}
+					return jn - p.Mixture.mass[sp]*c[sp]/rho*T
+				})
+				if err != nil {
+					return err
+				}
+				if bad != nil {
+					return bad
+				}
+				for a, gd := range dofs {
+					d.sys.Fix(d.lay.Offset(dfBlockJ0+i)+gd, vals[a])
+				}
+				continue
+			}
 			var bad error
 			dofs, vals, err := fem.BoundaryNormalMoments(d.F, []int{t}, func(x, nrm [2]float64) float64 {
 				var jn float64
 				if g != nil {
 					jn = g(x, nrm)
 				}
-				if vel == nil {
+				if vel == nil || bad != nil {
 					return jn
 				}
-				conc(x, c, gc)
-				if !(c[sp] > 0) && bad == nil {
+				if err := f.at(triangleAt(x), x, c, gc); err != nil {
+					bad = err
+					return jn
+				}
+				if !(c[sp] > 0) {
 					bad = &StateError{Model: "frozen state", Species: p.Mixture.Name(sp),
 						Reason: fmt.Sprintf("concentration %g at (%g, %g) on boundary %s is not positive", c[sp], x[0], x[1], tagLabel(d.m, t))}
 				}
@@ -329,8 +508,18 @@ func (d *DiffusiveFlux) setFluxData(conc func(x [2]float64, c []float64, gradc [
 	return nil
 }
 
+// stefanOf returns the Stefan wall with tag t.
+func (d *DiffusiveFlux) stefanOf(t int) *dfStefan {
+	for i := range d.stefan {
+		if d.stefan[i].tag == t {
+			return &d.stefan[i]
+		}
+	}
+	return nil
+}
+
 // assemble builds the frozen diffusive-flux system.
-func (d *DiffusiveFlux) assemble(conc func(x [2]float64, c []float64, gradc [][2]float64)) (*solver.CSR, []float64, error) {
+func (d *DiffusiveFlux) assemble(f diffusiveField) (*solver.CSR, []float64, error) {
 	p, n, r, m := d.prob, d.n, d.r, d.m
 	mix := p.Mixture
 	off := d.lay.Offset
@@ -402,7 +591,9 @@ func (d *DiffusiveFlux) assemble(conc func(x [2]float64, c []float64, gradc [][2
 		for q := 0; q < d.vq.NQ; q++ {
 			W := d.vq.W[q]
 			xq := d.vq.X[q]
-			conc(xq, cq, gq)
+			if err := f.atQuad(t, q, xq, cq, gq); err != nil {
+				return nil, nil, fmt.Errorf("physics: triangle %d: %w", t, err)
+			}
 			var rho, cT float64
 			var grho [2]float64
 			for i, ci := range cq {
@@ -597,7 +788,7 @@ type DiffusiveFluxErrors struct {
 type DiffusiveFluxExact func(x [2]float64) (v [2]float64, grad [2][2]float64, p float64, J [][2]float64, divJ []float64, mu []float64)
 
 // Errors measures s against the exact fields with a triangle rule exact to
-// quadDegree.
+// quadDegree. It returns nil when the frozen state cannot be evaluated.
 func (s *DiffusiveFluxSolution) Errors(exact DiffusiveFluxExact, quadDegree int) *DiffusiveFluxErrors {
 	d := s.d
 	n, r := d.n, d.r
@@ -675,7 +866,9 @@ func (s *DiffusiveFluxSolution) Errors(exact DiffusiveFluxExact, quadDegree int)
 				e := mh - (mue[i]/mix.mass[i] - mue[r]/mix.mass[r])
 				out.Potential[i] += W * e * e
 			}
-			s.conc(xq, c, gc)
+			if err := s.field.at(t, xq, c, gc); err != nil {
+				return nil
+			}
 			divv := gv[0][0] + gv[1][1]
 			for i := 0; i < n; i++ {
 				Mi := mix.mass[i]
@@ -703,10 +896,12 @@ func (s *DiffusiveFluxSolution) Errors(exact DiffusiveFluxExact, quadDegree int)
 
 // Conservation returns, per species, the largest element balance defect
 // |int_T (div J_i,h - M_i r_i)| of the total flux J_i,h = j_i,h + rho_i v_h,
-// relative to the sum over the mesh of int_T |div J_i,h| + |M_i r_i|. The
+// relative to the largest flux through an element, (int_T |J_i,h|)
+// |dT|/|T| (the measure of Diagnose). The
 // integrals use the assembly's triangle rule, so the defect is that of the
 // discrete equations: rounding for the first n-1 species; for the last one,
-// exact only when the pressure space holds the element indicators.
+// exact only when the pressure space holds the element indicators. It
+// returns nil when the frozen state cannot be evaluated.
 func (s *DiffusiveFluxSolution) Conservation() []float64 {
 	d := s.d
 	n, r := d.n, d.r
@@ -716,6 +911,8 @@ func (s *DiffusiveFluxSolution) Conservation() []float64 {
 	gc := make([][2]float64, n)
 	prod := make([]float64, n)
 	djh := make([]float64, n)
+	jh := make([][2]float64, n)
+	size := make([]float64, n)
 	defect := make([]float64, n)
 	scale := make([]float64, n)
 	worst := make([]float64, n)
@@ -723,9 +920,11 @@ func (s *DiffusiveFluxSolution) Conservation() []float64 {
 	for t := 0; t < d.m.NumTriangles(); t++ {
 		af := fem.ElementMap(d.m, t)
 		d.vq.Reinit(&af)
+		d.pq.Reinit(&af)
 		d.fq.Reinit(&af)
 		vd, fd, fs := d.V.Dofs(t), d.F.Dofs(t), d.F.Signs(t)
 		clear(defect)
+		clear(size)
 		for q := 0; q < d.vq.NQ; q++ {
 			W, xq := d.vq.W[q], d.vq.X[q]
 			var v [2]float64
@@ -736,17 +935,25 @@ func (s *DiffusiveFluxSolution) Conservation() []float64 {
 				v[1] += cy * d.vq.Val[q*nv+a]
 				divv += cx*d.vq.Grad[q*nv+a][0] + cy*d.vq.Grad[q*nv+a][1]
 			}
-			djh[r] = 0
+			djh[r], jh[r] = 0, [2]float64{}
 			for i := 0; i < r; i++ {
 				coef := s.DiffusiveFlux(i)
 				var dj float64
+				var jv [2]float64
 				for a := 0; a < nf; a++ {
-					dj += coef[fd[a]] * fs[a] * d.fq.Div[q*nf+a]
+					co := coef[fd[a]] * fs[a]
+					dj += co * d.fq.Div[q*nf+a]
+					jv[0] += co * d.fq.Val[q*nf+a][0]
+					jv[1] += co * d.fq.Val[q*nf+a][1]
 				}
-				djh[i] = dj
+				djh[i], jh[i] = dj, jv
 				djh[r] -= dj
+				jh[r][0] -= jv[0]
+				jh[r][1] -= jv[1]
 			}
-			s.conc(xq, c, gc)
+			if err := s.field.atQuad(t, q, xq, c, gc); err != nil {
+				return nil
+			}
 			clear(prod)
 			if src := d.prob.Source; src != nil && src.Production != nil {
 				src.Production(prod, xq)
@@ -755,11 +962,13 @@ func (s *DiffusiveFluxSolution) Conservation() []float64 {
 				Mi := mix.mass[i]
 				divJ := djh[i] + Mi*c[i]*divv + Mi*(gc[i][0]*v[0]+gc[i][1]*v[1])
 				defect[i] += W * (divJ - Mi*prod[i])
-				scale[i] += W * (math.Abs(divJ) + math.Abs(Mi*prod[i]))
+				size[i] += W * math.Hypot(jh[i][0]+Mi*c[i]*v[0], jh[i][1]+Mi*c[i]*v[1])
 			}
 		}
+		perArea := trianglePerimeter(d.m, t) / (0.5 * af.AbsDet())
 		for i := 0; i < n; i++ {
 			worst[i] = math.Max(worst[i], math.Abs(defect[i]))
+			scale[i] = math.Max(scale[i], size[i]*perArea)
 		}
 	}
 	for i := 0; i < n; i++ {
@@ -768,4 +977,47 @@ func (s *DiffusiveFluxSolution) Conservation() []float64 {
 		}
 	}
 	return worst
+}
+
+// BoundaryMassFlow returns, per species, the outward mass flow through the
+// boundary with tag t, int (j_i,h + rho_i v_h).n, with the frozen density
+// of the step (j_n = -sum of the others). It returns an error when the
+// frozen state cannot be evaluated.
+func (s *DiffusiveFluxSolution) BoundaryMassFlow(t int) ([]float64, error) {
+	d, m := s.d, s.d.m
+	n, r := d.n, d.r
+	rule, w := fem.GaussLegendre(d.k + 4)
+	c := make([]float64, n)
+	gc := make([][2]float64, n)
+	flow := make([]float64, n)
+	for _, e := range m.BoundaryEdges(t) {
+		tri := m.EdgeTriangles[e][0]
+		af := fem.ElementMap(m, tri)
+		nrm, length := fem.OutwardNormal(m, e)
+		a, b := m.Points[m.Edges[e][0]], m.Points[m.Edges[e][1]]
+		for q, sq := range rule {
+			xq := [2]float64{a[0] + sq*(b[0]-a[0]), a[1] + sq*(b[1]-a[1])}
+			xh := af.Reference(xq)
+			ux, _ := fem.ScalarAt(d.V, s.Velocity(0), tri, xh)
+			uy, _ := fem.ScalarAt(d.V, s.Velocity(1), tri, xh)
+			if err := s.field.at(tri, xq, c, gc); err != nil {
+				return nil, err
+			}
+			vn := ux*nrm[0] + uy*nrm[1]
+			f := w[q] * length
+			var jlast float64
+			for i := 0; i < n; i++ {
+				var jn float64
+				if i < r {
+					jv, _ := fem.DivAt(d.F, s.DiffusiveFlux(i), tri, xh)
+					jn = jv[0]*nrm[0] + jv[1]*nrm[1]
+					jlast -= jn
+				} else {
+					jn = jlast
+				}
+				flow[i] += f * (jn + d.prob.Mixture.mass[i]*c[i]*vn)
+			}
+		}
+	}
+	return flow, nil
 }

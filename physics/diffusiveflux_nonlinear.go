@@ -1,0 +1,494 @@
+package physics
+
+import (
+	"fmt"
+	"math"
+
+	"mixwell/fem"
+	"mixwell/solver"
+)
+
+// DiffusiveFluxSettings configures DiffusiveFlux.SolveNonlinear.
+type DiffusiveFluxSettings struct {
+	// Gas is the ideal-gas closure in the problem's scaled units (RT = 1).
+	// The diffusive-flux step determines the n-1 relative potentials only;
+	// the level comes from the equation of state, sum_i c_i = P0 + S p.
+	Gas *IdealGas
+	// Pressure0 is the absolute reference pressure in units of c_ref RT.
+	Pressure0 float64
+	// Initial is the uniform initial composition (mole fractions).
+	Initial []float64
+	// Tolerance on the relative fixed-point residual (default 1e-10),
+	// MaxIterations (default 150) and Anderson Depth (default 20).
+	Tolerance            float64
+	MaxIterations, Depth int
+}
+
+// DiffusiveFluxReport describes a nonlinear diffusive-flux solve.
+type DiffusiveFluxReport struct {
+	Iterations int
+	Converged  bool
+	Residual   float64
+	// EOSDefect is the largest |sum_i c_i / (P0 + S p) - 1| over the
+	// quadrature points of the final state: zero to the level solve's
+	// tolerance, since the level is taken from the equation of state.
+	EOSDefect float64
+}
+
+// diffusiveState is the Picard state of the diffusive-flux iteration: the
+// relative potentials m_1..m_{n-1}, L2-projected on the velocity space V,
+// and the pressure in P. It evaluates the concentrations with the ideal
+// gas, taking the level t = mu_n/M_n at every point from the equation of
+// state.
+type diffusiveState struct {
+	d    *DiffusiveFlux
+	gas  *IdealGas
+	p0   float64
+	x    []float64 // blocks m_1..m_{n-1} (V), then p (P)
+	mq   []float64 // relative potentials at one point
+	mu   []float64
+	gm   [][2]float64
+	eosD float64
+}
+
+func (st *diffusiveState) pressureBlock() []float64 {
+	nV := st.d.V.Len()
+	return st.x[st.d.r*nV:]
+}
+
+// concentrations writes c and grad c from the relative potentials m (with
+// gradients gm) of the first n-1 species and the pressure p (gradient gp):
+// mu_i = M_i (m_i + t), mu_n = M_n t, c_i = (P_ref/RT) exp(mu_i/RT), with
+// the level t from the equation of state RT sum_i c_i = P0 + S p.
+func (st *diffusiveState) concentrations(m []float64, gm [][2]float64, p float64, gp [2]float64, c []float64, gc [][2]float64) error {
+	d := st.d
+	n, r := d.n, d.r
+	mass := d.prob.Mixture.mass
+	S, rt, k := d.prob.S, st.gas.rt, st.gas.pRef/st.gas.rt
+	target := st.p0 + S*p
+	if !(target > 0) {
+		return &StateError{Model: "ideal gas", Reason: fmt.Sprintf("absolute pressure %g is not positive", target)}
+	}
+	lnTarget := math.Log(target)
+	rel := func(i int) float64 {
+		if i < r {
+			return m[i]
+		}
+		return 0
+	}
+	// g(t) = ln(RT sum_i c_i(t)) - ln(P0 + S p) is convex and increasing
+	// in t, so Newton's method converges from any start.
+	eval := func(t float64) (g, gt float64) {
+		var sum, sumM float64
+		for i := 0; i < n; i++ {
+			e := k * math.Exp(mass[i]*(rel(i)+t)/rt)
+			sum += e
+			sumM += mass[i] * e
+		}
+		return math.Log(rt*sum) - lnTarget, sumM / (rt * sum)
+	}
+	t := 0.0
+	for it := 0; ; it++ {
+		g, gt := eval(t)
+		if math.Abs(g) < 1e-14 {
+			break
+		}
+		if it == 60 || math.IsNaN(g) {
+			return &StateError{Model: "ideal gas", Reason: "the level of the potentials did not converge on the equation of state"}
+		}
+		t -= g / gt
+	}
+	var C, CM float64
+	for i := 0; i < n; i++ {
+		st.mu[i] = mass[i] * (rel(i) + t)
+		c[i] = k * math.Exp(st.mu[i]/rt)
+		C += c[i]
+		CM += mass[i] * c[i]
+	}
+	if err := checkPositive("ideal gas", d.prob.Mixture.names, c); err != nil {
+		return err
+	}
+	// grad t from g(t; m, p) = 0.
+	gt := CM / (rt * C)
+	gp0 := -S / target
+	var gradT [2]float64
+	for j := 0; j < r; j++ {
+		f := mass[j] * c[j] / (rt * C)
+		gradT[0] += f * gm[j][0]
+		gradT[1] += f * gm[j][1]
+	}
+	gradT[0] = -(gradT[0] + gp0*gp[0]) / gt
+	gradT[1] = -(gradT[1] + gp0*gp[1]) / gt
+	for i := 0; i < n; i++ {
+		var g [2]float64
+		if i < r {
+			g = gm[i]
+		}
+		f := c[i] * mass[i] / rt
+		gc[i] = [2]float64{f * (g[0] + gradT[0]), f * (g[1] + gradT[1])}
+	}
+	if e := math.Abs(rt*C/target - 1); e > st.eosD {
+		st.eosD = e
+	}
+	return nil
+}
+
+func (st *diffusiveState) atQuad(t, q int, x [2]float64, c []float64, gc [][2]float64) error {
+	d := st.d
+	nV, nv, np := d.V.Len(), d.vq.N, d.pq.N
+	vd, pd := d.V.Dofs(t), d.P.Dofs(t)
+	for i := 0; i < d.r; i++ {
+		blk := st.x[i*nV : (i+1)*nV]
+		var v float64
+		var g [2]float64
+		for a := 0; a < nv; a++ {
+			co := blk[vd[a]]
+			v += co * d.vq.Val[q*nv+a]
+			g[0] += co * d.vq.Grad[q*nv+a][0]
+			g[1] += co * d.vq.Grad[q*nv+a][1]
+		}
+		st.mq[i], st.gm[i] = v, g
+	}
+	pc := st.pressureBlock()
+	var p float64
+	var gp [2]float64
+	for a := 0; a < np; a++ {
+		co := pc[pd[a]]
+		p += co * d.pq.Val[q*np+a]
+		gp[0] += co * d.pq.Grad[q*np+a][0]
+		gp[1] += co * d.pq.Grad[q*np+a][1]
+	}
+	return st.concentrations(st.mq, st.gm, p, gp, c, gc)
+}
+
+func (st *diffusiveState) at(t int, x [2]float64, c []float64, gc [][2]float64) error {
+	d := st.d
+	nV := d.V.Len()
+	af := fem.ElementMap(d.m, t)
+	xh := af.Reference(x)
+	m := make([]float64, d.r)
+	for i := 0; i < d.r; i++ {
+		m[i], st.gm[i] = fem.ScalarAt(d.V, st.x[i*nV:(i+1)*nV], t, xh)
+	}
+	p, gp := fem.ScalarAt(d.P, st.pressureBlock(), t, xh)
+	return st.concentrations(m, st.gm, p, gp, c, gc)
+}
+
+// SolveNonlinear solves the steady problem with the diffusive-flux
+// formulation and the ideal gas by Anderson-accelerated Picard iteration.
+// The state is the relative potentials, L2-projected on the velocity space,
+// and the pressure; each step freezes the concentrations they imply on the
+// equation of state, solves the linear step and projects its relative
+// potentials. The post-processing of formulation note section 4 is not
+// applied.
+func (d *DiffusiveFlux) SolveNonlinear(s *DiffusiveFluxSettings) (*DiffusiveFluxSolution, *DiffusiveFluxReport, error) {
+	if s == nil || s.Gas == nil || len(s.Initial) != d.n || !(s.Pressure0 > 0) {
+		return nil, nil, fmt.Errorf("physics: SolveNonlinear needs the ideal gas, a positive reference pressure and an initial composition of %d species", d.n)
+	}
+	nV, nP, r := d.V.Len(), d.P.Len(), d.r
+	mass := d.prob.Mixture.mass
+	st := &diffusiveState{d: d, gas: s.Gas, p0: s.Pressure0, mq: make([]float64, d.r), mu: make([]float64, d.n), gm: make([][2]float64, d.n)}
+	x0 := make([]float64, r*nV+nP)
+	last := d.n - 1
+	for i := 0; i < r; i++ {
+		// On the equation of state at P0: mu_i = RT ln(x_i P0 / P_ref).
+		rt, pr := s.Gas.rt, s.Gas.pRef
+		mi := rt*math.Log(s.Initial[i]*s.Pressure0/pr)/mass[i] - rt*math.Log(s.Initial[last]*s.Pressure0/pr)/mass[last]
+		for a := 0; a < nV; a++ {
+			x0[i*nV+a] = mi
+		}
+	}
+	proj, err := newMassProjector(d.V)
+	if err != nil {
+		return nil, nil, err
+	}
+	// With flux or outflow data on the whole boundary the constant of each
+	// relative potential is a null mode of the step, and the frozen
+	// outgoing composition carries no information about it: the level is
+	// fixed by the species balance instead (levelByBalance).
+	var lv *levelByBalance
+	if len(d.potentialTags) == 0 {
+		if lv, err = newLevelByBalance(d, st); err != nil {
+			return nil, nil, err
+		}
+	}
+	var sol *DiffusiveFluxSolution
+	g := func(dst, x []float64) error {
+		st.x = x
+		st.eosD = 0
+		var err error
+		sol, err = d.solveField(st)
+		if err != nil {
+			return err
+		}
+		for i := 0; i < r; i++ {
+			if err := proj.projectDG(dst[i*nV:(i+1)*nV], d.U, sol.RelativePotential(i)); err != nil {
+				return err
+			}
+		}
+		copy(dst[r*nV:], sol.Pressure())
+		if lv != nil {
+			// The step's inflow, with its own frozen state (st.x = x).
+			if err := lv.setTarget(sol); err != nil {
+				return err
+			}
+			return lv.fix(dst, sol)
+		}
+		return nil
+	}
+	set := &solver.FixedPointSettings{Method: solver.Anderson, Tolerance: s.Tolerance, MaxIterations: s.MaxIterations, Depth: s.Depth}
+	if set.Tolerance == 0 {
+		set.Tolerance = 1e-10
+	}
+	if set.MaxIterations == 0 {
+		set.MaxIterations = 150
+	}
+	if set.Depth == 0 {
+		set.Depth = 20
+	}
+	res, ferr := solver.SolveFixedPoint(g, x0, set)
+	rep := &DiffusiveFluxReport{}
+	if res != nil {
+		rep.Iterations, rep.Converged, rep.Residual = res.Iterations, res.Converged, res.Residual
+		// Solve once more from the final state, so that the solution and
+		// the reported defect belong to it.
+		dst := make([]float64, len(res.X))
+		if err := g(dst, res.X); err != nil {
+			return nil, rep, err
+		}
+		rep.EOSDefect = st.eosD
+	}
+	if ferr != nil {
+		return sol, rep, ferr
+	}
+	return sol, rep, nil
+}
+
+// massProjector L2-projects fields onto a continuous scalar space, with
+// the mass matrix factorised once.
+type massProjector struct {
+	s   *fem.Space
+	lu  *solver.LU
+	mat *solver.CSR
+	q   *fem.ScalarQuad
+	rhs []float64
+}
+
+func newMassProjector(s *fem.Space) (*massProjector, error) {
+	el := s.Scalar()
+	q := fem.NewScalarQuad(el, 2*el.Degree()+2)
+	sys := fem.NewSystem(s.Len(), 0)
+	m := s.Mesh()
+	nl := s.LocalLen()
+	loc := make([]float64, nl*nl)
+	for t := 0; t < m.NumTriangles(); t++ {
+		af := fem.ElementMap(m, t)
+		q.Reinit(&af)
+		clear(loc)
+		for k := 0; k < q.NQ; k++ {
+			for a := 0; a < nl; a++ {
+				for b := 0; b < nl; b++ {
+					loc[a*nl+b] += q.W[k] * q.Val[k*nl+a] * q.Val[k*nl+b]
+				}
+			}
+		}
+		sys.AddMatrix(0, s.Dofs(t), nil, 0, s.Dofs(t), nil, loc)
+	}
+	A, _ := sys.Matrix()
+	lu, err := solver.FactorLU(A, nil)
+	if err != nil {
+		return nil, fmt.Errorf("physics: factorising the mass matrix: %w", err)
+	}
+	return &massProjector{s: s, lu: lu, mat: A, rhs: make([]float64, s.Len())}, nil
+}
+
+// projectDG writes into dst the L2 projection of the field with
+// coefficients c in the discontinuous space u (same mesh).
+func (p *massProjector) projectDG(dst []float64, u *fem.Space, c []float64) error {
+	m := p.s.Mesh()
+	el := p.s.Scalar()
+	if p.q == nil {
+		p.q = fem.NewScalarQuad(el, 2*el.Degree()+2)
+	}
+	uq := fem.NewScalarQuad(u.Scalar(), 2*el.Degree()+2)
+	clear(p.rhs)
+	nl, nu := p.s.LocalLen(), u.LocalLen()
+	for t := 0; t < m.NumTriangles(); t++ {
+		af := fem.ElementMap(m, t)
+		p.q.Reinit(&af)
+		uq.Reinit(&af)
+		vd, ud := p.s.Dofs(t), u.Dofs(t)
+		for k := 0; k < p.q.NQ; k++ {
+			var v float64
+			for a := 0; a < nu; a++ {
+				v += c[ud[a]] * uq.Val[k*nu+a]
+			}
+			for a := 0; a < nl; a++ {
+				p.rhs[vd[a]] += p.q.W[k] * v * p.q.Val[k*nl+a]
+			}
+		}
+	}
+	_, err := p.lu.SolveRefinedTo(dst, p.mat, p.rhs, 1)
+	return err
+}
+
+// levelByBalance fixes the constants of the relative potentials when no
+// boundary gives a composition: after each step it shifts the projected
+// m_1..m_{n-1} by constants s so that every species leaves through the
+// outflow boundaries as much as the step brings in through the others,
+// int_out M_i c_i(m + s, p) v.n = -int_in (j_i.n + rho_i v.n), solved by
+// Newton's method with a difference Jacobian. (The role that
+// section 10 item 4a of the formulation note gives the linearised outgoing
+// composition.)
+type levelByBalance struct {
+	d      *DiffusiveFlux
+	st     *diffusiveState
+	target []float64 // outward flow each species must have through the outflow
+	edges  []int     // outflow edges
+	inflow []int     // the other boundary edges
+	rule   []float64 // Gauss points on [0,1]
+	w      []float64
+}
+
+func newLevelByBalance(d *DiffusiveFlux, st *diffusiveState) (*levelByBalance, error) {
+	m, p := d.m, d.prob
+	lv := &levelByBalance{d: d, st: st, target: make([]float64, d.n)}
+	lv.rule, lv.w = fem.GaussLegendre(d.k + 4)
+	for _, t := range m.Tags() {
+		if p.Boundary[t].Species[0].Kind == SpeciesOutflow {
+			lv.edges = append(lv.edges, m.BoundaryEdges(t)...)
+		} else {
+			lv.inflow = append(lv.inflow, m.BoundaryEdges(t)...)
+		}
+	}
+	if len(lv.edges) == 0 {
+		return nil, fmt.Errorf("physics: the diffusive-flux iteration needs a composition boundary or an outflow boundary to fix the level of the potentials")
+	}
+	return lv, nil
+}
+
+// setTarget sets the outflow each species must have: what the step sol
+// brings in through the other boundaries, int (j_i,h.n + rho_i v_h.n) with
+// the step's frozen density, so that with the outflow the balance of the
+// whole domain, and so of the element whose potential is pinned, closes.
+func (lv *levelByBalance) setTarget(sol *DiffusiveFluxSolution) error {
+	d, m := lv.d, lv.d.m
+	n, r := d.n, d.r
+	c := make([]float64, n)
+	gc := make([][2]float64, n)
+	clear(lv.target)
+	for _, e := range lv.inflow {
+		t := m.EdgeTriangles[e][0]
+		af := fem.ElementMap(m, t)
+		nrm, length := fem.OutwardNormal(m, e)
+		a, b := m.Points[m.Edges[e][0]], m.Points[m.Edges[e][1]]
+		for q, sq := range lv.rule {
+			xq := [2]float64{a[0] + sq*(b[0]-a[0]), a[1] + sq*(b[1]-a[1])}
+			xh := af.Reference(xq)
+			ux, _ := fem.ScalarAt(d.V, sol.Velocity(0), t, xh)
+			uy, _ := fem.ScalarAt(d.V, sol.Velocity(1), t, xh)
+			if err := lv.st.at(t, xq, c, gc); err != nil {
+				return err
+			}
+			vn := ux*nrm[0] + uy*nrm[1]
+			for i := 0; i < r; i++ {
+				jv, _ := fem.DivAt(d.F, sol.DiffusiveFlux(i), t, xh)
+				in := jv[0]*nrm[0] + jv[1]*nrm[1] + d.prob.Mixture.mass[i]*c[i]*vn
+				lv.target[i] -= lv.w[q] * length * in
+			}
+		}
+	}
+	return nil
+}
+
+// outflow writes into f the outward flow of the first n-1 species through
+// the outflow edges for the state x and the velocity of sol, minus the
+// targets.
+func (lv *levelByBalance) outflow(f []float64, x []float64, sol *DiffusiveFluxSolution) error {
+	d, m := lv.d, lv.d.m
+	n, r := d.n, d.r
+	c := make([]float64, n)
+	gc := make([][2]float64, n)
+	save := lv.st.x
+	lv.st.x = x
+	defer func() { lv.st.x = save }()
+	for i := 0; i < r; i++ {
+		f[i] = -lv.target[i]
+	}
+	vx, vy := sol.Velocity(0), sol.Velocity(1)
+	for _, e := range lv.edges {
+		t := m.EdgeTriangles[e][0]
+		af := fem.ElementMap(m, t)
+		nrm, length := fem.OutwardNormal(m, e)
+		a, b := m.Points[m.Edges[e][0]], m.Points[m.Edges[e][1]]
+		for q, sq := range lv.rule {
+			xq := [2]float64{a[0] + sq*(b[0]-a[0]), a[1] + sq*(b[1]-a[1])}
+			xh := af.Reference(xq)
+			ux, _ := fem.ScalarAt(d.V, vx, t, xh)
+			uy, _ := fem.ScalarAt(d.V, vy, t, xh)
+			if err := lv.st.at(t, xq, c, gc); err != nil {
+				return err
+			}
+			vn := ux*nrm[0] + uy*nrm[1]
+			for i := 0; i < r; i++ {
+				f[i] += lv.w[q] * length * d.prob.Mixture.mass[i] * c[i] * vn
+			}
+		}
+	}
+	return nil
+}
+
+// fix shifts the relative-potential blocks of x so that the balance holds.
+func (lv *levelByBalance) fix(x []float64, sol *DiffusiveFluxSolution) error {
+	d := lv.d
+	r, nV := d.r, d.V.Len()
+	f := make([]float64, r)
+	fp := make([]float64, r)
+	jac := make([]float64, r*r)
+	shift := func(i int, s float64) {
+		blk := x[i*nV : (i+1)*nV]
+		for a := range blk {
+			blk[a] += s
+		}
+	}
+	var scale float64
+	for i := 0; i < r; i++ {
+		scale = math.Max(scale, math.Abs(lv.target[i]))
+	}
+	if scale == 0 {
+		scale = 1
+	}
+	for it := 0; it < 30; it++ {
+		if err := lv.outflow(f, x, sol); err != nil {
+			return err
+		}
+		var worst float64
+		for _, v := range f {
+			worst = math.Max(worst, math.Abs(v))
+		}
+		if worst < 1e-13*scale {
+			return nil
+		}
+		const h = 1e-7
+		for k := 0; k < r; k++ {
+			shift(k, h)
+			if err := lv.outflow(fp, x, sol); err != nil {
+				return err
+			}
+			shift(k, -h)
+			for i := 0; i < r; i++ {
+				jac[i*r+k] = (fp[i] - f[i]) / h
+			}
+		}
+		piv := make([]int, r)
+		if !luFactor(jac, r, piv) {
+			return fmt.Errorf("physics: fixing the level of the potentials by the species balance: singular Jacobian")
+		}
+		ds := append([]float64(nil), f...)
+		luSolve(jac, r, piv, ds)
+		for k := 0; k < r; k++ {
+			shift(k, -ds[k])
+		}
+	}
+	return fmt.Errorf("physics: the species balance that fixes the level of the potentials did not converge")
+}
