@@ -337,102 +337,67 @@ func (p *massProjector) projectDG(dst []float64, u *fem.Space, c []float64) erro
 // m_1..m_{n-1} by constants s so that every species leaves through the
 // outflow boundaries as much as the step brings in through the others,
 // int_out M_i c_i(m + s, p) v.n = -int_in (j_i.n + rho_i v.n), solved by
-// Newton's method with a difference Jacobian. (The role that
-// section 10 item 4a of the formulation note gives the linearised outgoing
+// Newton's method with a difference Jacobian. (The role that section 10
+// item 4a of the formulation note gives the linearised outgoing
 // composition.)
 type levelByBalance struct {
-	d      *DiffusiveFlux
-	st     *diffusiveState
-	target []float64 // outward flow each species must have through the outflow
-	edges  []int     // outflow edges
-	inflow []int     // the other boundary edges
-	rule   []float64 // Gauss points on [0,1]
-	w      []float64
+	d       *DiffusiveFlux
+	st      *diffusiveState
+	target  []float64 // outward flow each species must have through the outflow
+	outTags []int     // outflow boundaries
+	inTags  []int     // the others
 }
 
 func newLevelByBalance(d *DiffusiveFlux, st *diffusiveState) (*levelByBalance, error) {
-	m, p := d.m, d.prob
 	lv := &levelByBalance{d: d, st: st, target: make([]float64, d.n)}
-	lv.rule, lv.w = fem.GaussLegendre(d.k + 4)
-	for _, t := range m.Tags() {
-		if p.Boundary[t].Species[0].Kind == SpeciesOutflow {
-			lv.edges = append(lv.edges, m.BoundaryEdges(t)...)
+	for _, t := range d.m.Tags() {
+		if d.prob.Boundary[t].Species[0].Kind == SpeciesOutflow {
+			lv.outTags = append(lv.outTags, t)
 		} else {
-			lv.inflow = append(lv.inflow, m.BoundaryEdges(t)...)
+			lv.inTags = append(lv.inTags, t)
 		}
 	}
-	if len(lv.edges) == 0 {
+	if len(lv.outTags) == 0 {
 		return nil, fmt.Errorf("physics: the diffusive-flux iteration needs a composition boundary or an outflow boundary to fix the level of the potentials")
 	}
 	return lv, nil
 }
 
 // setTarget sets the outflow each species must have: what the step sol
-// brings in through the other boundaries, int (j_i,h.n + rho_i v_h.n) with
-// the step's frozen density, so that with the outflow the balance of the
-// whole domain, and so of the element whose potential is pinned, closes.
+// brings in through the other boundaries, with the step's frozen density,
+// so that with the outflow the balance of the whole domain, and so of the
+// element whose potential is pinned, closes.
 func (lv *levelByBalance) setTarget(sol *DiffusiveFluxSolution) error {
-	d, m := lv.d, lv.d.m
-	n, r := d.n, d.r
-	c := make([]float64, n)
-	gc := make([][2]float64, n)
 	clear(lv.target)
-	for _, e := range lv.inflow {
-		t := m.EdgeTriangles[e][0]
-		af := fem.ElementMap(m, t)
-		nrm, length := fem.OutwardNormal(m, e)
-		a, b := m.Points[m.Edges[e][0]], m.Points[m.Edges[e][1]]
-		for q, sq := range lv.rule {
-			xq := [2]float64{a[0] + sq*(b[0]-a[0]), a[1] + sq*(b[1]-a[1])}
-			xh := af.Reference(xq)
-			ux, _ := fem.ScalarAt(d.V, sol.Velocity(0), t, xh)
-			uy, _ := fem.ScalarAt(d.V, sol.Velocity(1), t, xh)
-			if err := lv.st.at(t, xq, c, gc); err != nil {
-				return err
-			}
-			vn := ux*nrm[0] + uy*nrm[1]
-			for i := 0; i < r; i++ {
-				jv, _ := fem.DivAt(d.F, sol.DiffusiveFlux(i), t, xh)
-				in := jv[0]*nrm[0] + jv[1]*nrm[1] + d.prob.Mixture.mass[i]*c[i]*vn
-				lv.target[i] -= lv.w[q] * length * in
-			}
+	for _, t := range lv.inTags {
+		flow, err := sol.BoundaryMassFlow(t)
+		if err != nil {
+			return err
+		}
+		for i, f := range flow {
+			lv.target[i] -= f
 		}
 	}
 	return nil
 }
 
 // outflow writes into f the outward flow of the first n-1 species through
-// the outflow edges for the state x and the velocity of sol, minus the
-// targets.
+// the outflow boundaries for the state x and the velocity of sol, minus
+// the targets.
 func (lv *levelByBalance) outflow(f []float64, x []float64, sol *DiffusiveFluxSolution) error {
-	d, m := lv.d, lv.d.m
-	n, r := d.n, d.r
-	c := make([]float64, n)
-	gc := make([][2]float64, n)
 	save := lv.st.x
 	lv.st.x = x
 	defer func() { lv.st.x = save }()
-	for i := 0; i < r; i++ {
+	for i := range f {
 		f[i] = -lv.target[i]
 	}
-	vx, vy := sol.Velocity(0), sol.Velocity(1)
-	for _, e := range lv.edges {
-		t := m.EdgeTriangles[e][0]
-		af := fem.ElementMap(m, t)
-		nrm, length := fem.OutwardNormal(m, e)
-		a, b := m.Points[m.Edges[e][0]], m.Points[m.Edges[e][1]]
-		for q, sq := range lv.rule {
-			xq := [2]float64{a[0] + sq*(b[0]-a[0]), a[1] + sq*(b[1]-a[1])}
-			xh := af.Reference(xq)
-			ux, _ := fem.ScalarAt(d.V, vx, t, xh)
-			uy, _ := fem.ScalarAt(d.V, vy, t, xh)
-			if err := lv.st.at(t, xq, c, gc); err != nil {
-				return err
-			}
-			vn := ux*nrm[0] + uy*nrm[1]
-			for i := 0; i < r; i++ {
-				f[i] += lv.w[q] * length * d.prob.Mixture.mass[i] * c[i] * vn
-			}
+	for _, t := range lv.outTags {
+		flow, err := sol.BoundaryMassFlow(t)
+		if err != nil {
+			return err
+		}
+		for i := range f {
+			f[i] += flow[i]
 		}
 	}
 	return nil
