@@ -41,15 +41,17 @@ import (
 // SolveFrozen solves one step with frozen concentrations (the measurement
 // of docs/augmentation.md); SolveNonlinear iterates with the ideal gas,
 // taking the level of the potentials from the equation of state. Outflow is
-// zero diffusive flux, j_i.n = 0, essential. Slip and Stefan-wall
-// conditions, and boundaries that mix flux and potential data, are not
+// zero diffusive flux, j_i.n = 0, essential. A Stefan wall is built when
+// every species has flux data there (an inlet of given mass fluxes). Slip,
+// Stefan walls with composition data (whose velocity would need boundary
+// multipliers), and boundaries that mix flux and potential data are not
 // built for it and are rejected by name.
 
 // Block numbers of a DiffusiveFlux layout: vx, vy, p, then j_1..j_{n-1},
 // then m_1..m_{n-1}.
 const dfBlockJ0 = 3
 
-// DiffusiveFlux is the frozen-coefficient diffusive-flux discretisation of a
+// DiffusiveFlux is the diffusive-flux discretisation of a
 // Problem (remedy (c) of docs/augmentation.md): Taylor–Hood or
 // Scott–Vogelius velocity and pressure, BDM or RT diffusive fluxes of n-1
 // species and discontinuous relative potentials. The sparsity pattern and
