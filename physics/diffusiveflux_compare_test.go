@@ -62,7 +62,7 @@ func TestMixingChannelRemedies(t *testing.T) {
 	// state to rounding, and with the mass-flux inlet the outgoing mixture
 	// at the inflow mean within 1e-5.
 	if os.Getenv("MIXWELL_LONG") == "" {
-		t.Skip("long study (several minutes): set MIXWELL_LONG=1")
+		t.Skip("long study (about 25 minutes): set MIXWELL_LONG=1")
 	}
 	for _, massInlet := range []bool{false, true} {
 		for _, nx := range []int{16, 32, 64} {
