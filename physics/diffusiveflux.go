@@ -451,61 +451,66 @@ func (d *DiffusiveFlux) setFluxData(f diffusiveField) error {
 			if bc.Species[i].Kind == SpeciesOutflow {
 				g, vel = nil, nil
 			}
+			var value func(x, nrm [2]float64) (float64, error)
 			if stefan {
 				// j_i.n = J_i.n - w_i sum_k J_k.n.
-				var bad error
-				dofs, vals, err := fem.BoundaryNormalMoments(d.F, []int{t}, func(x, nrm [2]float64) float64 {
+				value = func(x, nrm [2]float64) (float64, error) {
 					var jn float64
 					if g != nil {
 						jn = g(x, nrm)
 					}
 					T, rho, err := total(x, nrm)
-					if err != nil && bad == nil {
-						bad = err
+					return jn - p.Mixture.mass[sp]*c[sp]/rho*T, err
+				}
+			} else {
+				// j_i.n = J_i.n - rho_i v.n.
+				value = func(x, nrm [2]float64) (float64, error) {
+					var jn float64
+					if g != nil {
+						jn = g(x, nrm)
 					}
-					return jn - p.Mixture.mass[sp]*c[sp]/rho*T
-				})
-				if err != nil {
-					return err
+					if vel == nil {
+						return jn, nil
+					}
+					if err := f.at(triangleAt(x), x, c, gc); err != nil {
+						return jn, err
+					}
+					if !(c[sp] > 0) {
+						return jn, &StateError{Model: "frozen state", Species: p.Mixture.Name(sp),
+							Reason: fmt.Sprintf("concentration %g at (%g, %g) on boundary %s is not positive", c[sp], x[0], x[1], tagLabel(d.m, t))}
+					}
+					v := vel(x)
+					return jn - p.Mixture.mass[sp]*c[sp]*(v[0]*nrm[0]+v[1]*nrm[1]), nil
 				}
-				if bad != nil {
-					return bad
-				}
-				for a, gd := range dofs {
-					d.sys.Fix(d.lay.Offset(dfBlockJ0+i)+gd, vals[a])
-				}
-				continue
 			}
-			var bad error
-			dofs, vals, err := fem.BoundaryNormalMoments(d.F, []int{t}, func(x, nrm [2]float64) float64 {
-				var jn float64
-				if g != nil {
-					jn = g(x, nrm)
-				}
-				if vel == nil || bad != nil {
-					return jn
-				}
-				if err := f.at(triangleAt(x), x, c, gc); err != nil {
-					bad = err
-					return jn
-				}
-				if !(c[sp] > 0) {
-					bad = &StateError{Model: "frozen state", Species: p.Mixture.Name(sp),
-						Reason: fmt.Sprintf("concentration %g at (%g, %g) on boundary %s is not positive", c[sp], x[0], x[1], tagLabel(d.m, t))}
-				}
-				v := vel(x)
-				return jn - p.Mixture.mass[sp]*c[sp]*(v[0]*nrm[0]+v[1]*nrm[1])
-			})
-			if err != nil {
+			if err := d.fixFluxMoments(i, t, value); err != nil {
 				return err
 			}
-			if bad != nil {
-				return bad
-			}
-			for a, gd := range dofs {
-				d.sys.Fix(d.lay.Offset(dfBlockJ0+i)+gd, vals[a])
-			}
 		}
+	}
+	return nil
+}
+
+// fixFluxMoments sets the essential normal moments of j_i on the boundary
+// with tag t to those of value; the first error value reports wins.
+func (d *DiffusiveFlux) fixFluxMoments(i, t int, value func(x, nrm [2]float64) (float64, error)) error {
+	var bad error
+	dofs, vals, err := fem.BoundaryNormalMoments(d.F, []int{t}, func(x, nrm [2]float64) float64 {
+		if bad != nil {
+			return 0
+		}
+		v, err := value(x, nrm)
+		bad = err
+		return v
+	})
+	if err != nil {
+		return err
+	}
+	if bad != nil {
+		return bad
+	}
+	for a, g := range dofs {
+		d.sys.Fix(d.lay.Offset(dfBlockJ0+i)+g, vals[a])
 	}
 	return nil
 }

@@ -198,7 +198,7 @@ func (d *DiffusiveFlux) SolveNonlinear(s *DiffusiveFluxSettings) (*DiffusiveFlux
 			x0[i*nV+a] = mi
 		}
 	}
-	proj, err := newMassProjector(d.V)
+	proj, err := newMassProjector(d.V, d.U)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -222,7 +222,7 @@ func (d *DiffusiveFlux) SolveNonlinear(s *DiffusiveFluxSettings) (*DiffusiveFlux
 			return err
 		}
 		for i := 0; i < r; i++ {
-			if err := proj.projectDG(dst[i*nV:(i+1)*nV], d.U, sol.RelativePotential(i)); err != nil {
+			if err := proj.projectDG(dst[i*nV:(i+1)*nV], sol.RelativePotential(i)); err != nil {
 				return err
 			}
 		}
@@ -264,19 +264,21 @@ func (d *DiffusiveFlux) SolveNonlinear(s *DiffusiveFluxSettings) (*DiffusiveFlux
 	return sol, rep, nil
 }
 
-// massProjector L2-projects fields onto a continuous scalar space, with
-// the mass matrix factorised once.
+// massProjector L2-projects fields of a discontinuous space u onto a
+// continuous scalar space s on the same mesh, with the mass matrix
+// factorised and both spaces tabulated once.
 type massProjector struct {
-	s   *fem.Space
-	lu  *solver.LU
-	mat *solver.CSR
-	q   *fem.ScalarQuad
-	rhs []float64
+	s, u   *fem.Space
+	lu     *solver.LU
+	mat    *solver.CSR
+	sq, uq *fem.ScalarQuad
+	rhs    []float64
 }
 
-func newMassProjector(s *fem.Space) (*massProjector, error) {
+func newMassProjector(s, u *fem.Space) (*massProjector, error) {
 	el := s.Scalar()
-	q := fem.NewScalarQuad(el, 2*el.Degree()+2)
+	deg := 2*el.Degree() + 2
+	q := fem.NewScalarQuad(el, deg)
 	sys := fem.NewSystem(s.Len(), 0)
 	m := s.Mesh()
 	nl := s.LocalLen()
@@ -299,32 +301,27 @@ func newMassProjector(s *fem.Space) (*massProjector, error) {
 	if err != nil {
 		return nil, fmt.Errorf("physics: factorising the mass matrix: %w", err)
 	}
-	return &massProjector{s: s, lu: lu, mat: A, rhs: make([]float64, s.Len())}, nil
+	return &massProjector{s: s, u: u, lu: lu, mat: A, sq: q, uq: fem.NewScalarQuad(u.Scalar(), deg), rhs: make([]float64, s.Len())}, nil
 }
 
 // projectDG writes into dst the L2 projection of the field with
-// coefficients c in the discontinuous space u (same mesh).
-func (p *massProjector) projectDG(dst []float64, u *fem.Space, c []float64) error {
+// coefficients c in the discontinuous space.
+func (p *massProjector) projectDG(dst, c []float64) error {
 	m := p.s.Mesh()
-	el := p.s.Scalar()
-	if p.q == nil {
-		p.q = fem.NewScalarQuad(el, 2*el.Degree()+2)
-	}
-	uq := fem.NewScalarQuad(u.Scalar(), 2*el.Degree()+2)
 	clear(p.rhs)
-	nl, nu := p.s.LocalLen(), u.LocalLen()
+	nl, nu := p.s.LocalLen(), p.u.LocalLen()
 	for t := 0; t < m.NumTriangles(); t++ {
 		af := fem.ElementMap(m, t)
-		p.q.Reinit(&af)
-		uq.Reinit(&af)
-		vd, ud := p.s.Dofs(t), u.Dofs(t)
-		for k := 0; k < p.q.NQ; k++ {
+		p.sq.Reinit(&af)
+		p.uq.Reinit(&af)
+		vd, ud := p.s.Dofs(t), p.u.Dofs(t)
+		for k := 0; k < p.sq.NQ; k++ {
 			var v float64
 			for a := 0; a < nu; a++ {
-				v += c[ud[a]] * uq.Val[k*nu+a]
+				v += c[ud[a]] * p.uq.Val[k*nu+a]
 			}
 			for a := 0; a < nl; a++ {
-				p.rhs[vd[a]] += p.q.W[k] * v * p.q.Val[k*nl+a]
+				p.rhs[vd[a]] += p.sq.W[k] * v * p.sq.Val[k*nl+a]
 			}
 		}
 	}
