@@ -22,20 +22,24 @@ type PatternSystem struct {
 	n     int
 	fixed []bool
 	value []float64
-	pat   *solver.COO
-	a     *solver.CSR
-	rhs   []float64
+	// replaced marks the rows whose element contributions are dropped in
+	// favour of AddReplacement (Replace).
+	replaced []bool
+	pat      *solver.COO
+	a        *solver.CSR
+	rhs      []float64
 }
 
 // NewPatternSystem returns an empty n by n pattern system in its
 // declaration phase.
 func NewPatternSystem(n int) *PatternSystem {
 	return &PatternSystem{
-		n:     n,
-		fixed: make([]bool, n),
-		value: make([]float64, n),
-		pat:   solver.NewCOO(n, n, 0),
-		rhs:   make([]float64, n),
+		n:        n,
+		fixed:    make([]bool, n),
+		value:    make([]float64, n),
+		replaced: make([]bool, n),
+		pat:      solver.NewCOO(n, n, 0),
+		rhs:      make([]float64, n),
 	}
 }
 
@@ -58,6 +62,19 @@ func (s *PatternSystem) Fixed(i int) bool { return s.fixed[i] }
 
 // FixedValue returns the value of fixed unknown i.
 func (s *PatternSystem) FixedValue(i int) float64 { return s.value[i] }
+
+// Replace declares, in the declaration phase, that the equation of unknown
+// i is not the one the elements assemble: AddMatrix, AddVector and AddRHS
+// skip row i, and only AddReplacement and AddReplacementRHS write it. This
+// states a constraint in place of a Galerkin row, for example a normal
+// velocity tied to a boundary flux. The unknown itself stays free, and its
+// column is assembled as usual. An unknown that is also fixed stays fixed.
+func (s *PatternSystem) Replace(i int) {
+	if s.a != nil {
+		panic("fem: PatternSystem.Replace after Build")
+	}
+	s.replaced[i] = true
+}
 
 // Couple declares that rows rowOff+rows[a] and columns colOff+cols[b] may
 // hold entries. Call it in the declaration phase for every element block
@@ -111,6 +128,17 @@ func (s *PatternSystem) Reset() {
 // multiplied by rowSigns[a]*colSigns[b] (nil signs mean +1). The block must
 // have been declared with Couple.
 func (s *PatternSystem) AddMatrix(rowOff int, rows []int, rowSigns []float64, colOff int, cols []int, colSigns []float64, local []float64) {
+	s.add(false, rowOff, rows, rowSigns, colOff, cols, colSigns, local)
+}
+
+// AddReplacement adds like AddMatrix, but only into rows declared with
+// Replace; entries for any other row are skipped.
+func (s *PatternSystem) AddReplacement(rowOff int, rows []int, rowSigns []float64, colOff int, cols []int, colSigns []float64, local []float64) {
+	s.add(true, rowOff, rows, rowSigns, colOff, cols, colSigns, local)
+}
+
+// add adds local into the rows whose replaced flag equals replacement.
+func (s *PatternSystem) add(replacement bool, rowOff int, rows []int, rowSigns []float64, colOff int, cols []int, colSigns []float64, local []float64) {
 	nc := len(cols)
 	if len(local) != len(rows)*nc {
 		panic("fem: element matrix size mismatch")
@@ -119,7 +147,7 @@ func (s *PatternSystem) AddMatrix(rowOff int, rows []int, rowSigns []float64, co
 	val := s.a.Values()
 	for a, r := range rows {
 		gi := rowOff + r
-		if s.fixed[gi] {
+		if s.fixed[gi] || s.replaced[gi] != replacement {
 			continue
 		}
 		sr := 1.0
@@ -174,7 +202,7 @@ func searchInts(a []int, v int) int {
 func (s *PatternSystem) AddVector(rowOff int, rows []int, rowSigns []float64, local []float64) {
 	for a, r := range rows {
 		gi := rowOff + r
-		if s.fixed[gi] {
+		if s.fixed[gi] || s.replaced[gi] {
 			continue
 		}
 		v := local[a]
@@ -185,9 +213,18 @@ func (s *PatternSystem) AddVector(rowOff int, rows []int, rowSigns []float64, lo
 	}
 }
 
-// AddRHS adds v to the right-hand side of unknown i (ignored when fixed).
+// AddRHS adds v to the right-hand side of unknown i (ignored when fixed or
+// replaced).
 func (s *PatternSystem) AddRHS(i int, v float64) {
-	if !s.fixed[i] {
+	if !s.fixed[i] && !s.replaced[i] {
+		s.rhs[i] += v
+	}
+}
+
+// AddReplacementRHS adds v to the right-hand side of row i if it is
+// replaced and not fixed (ignored otherwise).
+func (s *PatternSystem) AddReplacementRHS(i int, v float64) {
+	if s.replaced[i] && !s.fixed[i] {
 		s.rhs[i] += v
 	}
 }

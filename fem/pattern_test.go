@@ -154,3 +154,42 @@ func TestBoundaryData(t *testing.T) {
 		}
 	}
 }
+
+func TestPatternSystemReplace(t *testing.T) {
+	// A 3x3 system: row 1 is replaced by the constraint x1 - 2 x0 + 3 x2 =
+	// 4 with x2 fixed to 5, so the replaced row reads x1 - 2 x0 = 4 - 15;
+	// rows 0 keeps its element entries, and the element entries and load
+	// of row 1 are dropped. Entries written by hand from these rules.
+	ps := NewPatternSystem(3)
+	ps.Fix(2, 5)
+	ps.Replace(1)
+	all := []int{0, 1, 2}
+	ps.Couple(0, all, 0, all)
+	ps.Build()
+	ps.Reset()
+	ps.AddMatrix(0, all, nil, 0, all, nil, []float64{
+		4, 1, 1,
+		1, 7, 1,
+		1, 1, 9,
+	})
+	ps.AddVector(0, all, nil, []float64{1, 100, 1})
+	ps.AddRHS(1, 50)
+	ps.AddReplacement(0, []int{0, 1}, nil, 0, all, nil, []float64{
+		99, 99, 99, // row 0 is not replaced: skipped
+		-2, 1, 3,
+	})
+	ps.AddReplacementRHS(1, 4)
+	a, b := ps.Matrix()
+	want := [3][3]float64{{4, 1, 0}, {-2, 1, 0}, {0, 0, 1}}
+	wantB := [3]float64{1 - 5, 4 - 15, 5}
+	for i := 0; i < 3; i++ {
+		for j := 0; j < 3; j++ {
+			if got := a.At(i, j); got != want[i][j] {
+				t.Errorf("A[%d][%d] = %g, want %g", i, j, got, want[i][j])
+			}
+		}
+		if b[i] != wantB[i] {
+			t.Errorf("b[%d] = %g, want %g", i, b[i], wantB[i])
+		}
+	}
+}

@@ -3,6 +3,7 @@ package physics
 import (
 	"fmt"
 	"math"
+	"slices"
 
 	"mixwell/fem"
 	"mixwell/mesh"
@@ -41,11 +42,19 @@ import (
 // SolveFrozen solves one step with frozen concentrations (the measurement
 // of docs/augmentation.md); SolveNonlinear iterates with the ideal gas,
 // taking the level of the potentials from the equation of state. Outflow is
-// zero diffusive flux, j_i.n = 0, essential. A Stefan wall is built when
-// every species has flux data there (an inlet of given mass fluxes). Slip,
-// Stefan walls with composition data (whose velocity would need boundary
-// multipliers), and boundaries that mix flux and potential data are not
-// built for it and are rejected by name.
+// zero diffusive flux, j_i.n = 0, essential. Slip walls fix v.n = 0. A
+// Stefan wall takes either flux data for every species (an inlet of given
+// mass fluxes; its normal velocity sum_i J_i.n / rho is set from the frozen
+// density) or composition data with one impermeable species l (an
+// evaporating or dissolving surface). There the relative potentials of all
+// species are imposed, the impermeable one's included, and the normal
+// velocity is an unknown: the rows of its unknowns state
+// J_l.n = j_l.n + rho_l v.n = g_l, projected on the velocity trace, in place
+// of the momentum balance, whose normal traction becomes a reaction. The
+// count closes: n-1 natural potential data and one constraint fix the n-1
+// normal diffusive fluxes and v.n. Two or more impermeable species would
+// need their wall potentials as unknowns and are rejected by name, as are
+// boundaries that otherwise mix flux and potential data.
 
 // Block numbers of a DiffusiveFlux layout: vx, vy, p, then j_1..j_{n-1},
 // then m_1..m_{n-1}.
@@ -86,14 +95,17 @@ type DiffusiveFlux struct {
 }
 
 // dfStefan is a Stefan wall of the diffusive-flux discretisation: its tag,
-// the velocity component normal to it, the outward normal, and the
-// unknowns of that component that it sets (corners held by a given
-// velocity excluded).
+// the velocity component normal to it, the outward normal, the unknowns
+// of that component that it sets or constrains (corners held by a given
+// velocity excluded), and its impermeable species.
 type dfStefan struct {
 	tag    int
 	comp   int
 	normal [2]float64
 	dofs   map[int]bool
+	// wall is the impermeable species of a wall with composition data,
+	// or -1 for a wall with flux data for every species.
+	wall int
 }
 
 // NewDiffusiveFlux builds the spaces, the essential set and the sparsity
@@ -156,19 +168,44 @@ func (d *DiffusiveFlux) fixEssential() error {
 	for _, t := range m.Tags() {
 		bc := p.Boundary[t]
 		kind := bc.Species[0].Kind
+		wall := -1 // the impermeable species of a Stefan wall with composition data
+		if bc.Velocity.Kind == VelocityStefan {
+			var err error
+			if wall, err = d.compositionWall(t); err != nil {
+				return err
+			}
+			if wall >= 0 {
+				kind = SpeciesPotential
+			}
+		}
 		for i, sc := range bc.Species {
 			if sc.Relative {
 				return fmt.Errorf("physics: boundary %s, species %q: relative potential data are not built for the diffusive-flux formulation", tagLabel(m, t), p.Mixture.Name(i))
 			}
-			if sc.Kind != kind {
-				return fmt.Errorf("physics: boundary %s mixes flux and potential data (species %q has %s, %q has %s); the diffusive-flux formulation needs one kind for every species of a boundary",
-					tagLabel(m, t), p.Mixture.Name(0), kind, p.Mixture.Name(i), sc.Kind)
+			if sc.Kind != kind && i != wall {
+				return fmt.Errorf("physics: boundary %s mixes flux and potential data (species %q has %s, %q has %s); the diffusive-flux formulation needs one kind for every species of a boundary, except on a Stefan wall with composition data and one impermeable species",
+					tagLabel(m, t), p.Mixture.Name(0), bc.Species[0].Kind, p.Mixture.Name(i), sc.Kind)
 			}
 		}
 		switch bc.Velocity.Kind {
 		case VelocityGiven:
 			if err := d.fixGivenVelocity(d.sys, d.lay, t, bc.Velocity.Velocity, nil); err != nil {
 				return err
+			}
+		case VelocitySlip:
+			// v.n = 0; the tangential traction vanishes (natural).
+			c, err := slipComponent(m, t)
+			if err != nil {
+				return err
+			}
+			dofs, err := d.V.BoundaryDofs(t)
+			if err != nil {
+				return err
+			}
+			for _, g := range dofs {
+				if !given[g] {
+					d.sys.Fix(d.lay.Offset(blockVX+c)+g, 0)
+				}
 			}
 		case VelocityTraction:
 			if bc.Velocity.NoTangential {
@@ -186,12 +223,14 @@ func (d *DiffusiveFlux) fixEssential() error {
 			}
 			allVelocityEssential = false
 		case VelocityStefan:
-			// Only with flux data for every species: with composition
-			// data the wall velocity would be an unknown tied to the
-			// fluxes, which needs boundary multipliers (docs/augmentation.md).
-			if kind != SpeciesFlux {
-				return fmt.Errorf("physics: boundary %s: a Stefan wall with %s data is not built for the diffusive-flux formulation: its velocity would be an unknown tied to the fluxes, which needs boundary multipliers (only a Stefan wall with flux data for every species is, such as an inlet of given mass fluxes)", tagLabel(m, t), kind)
-			}
+			// With flux data for every species the normal velocity
+			// sum_i J_i.n / rho is fixed by each solve from the frozen
+			// density. With composition data and one impermeable species
+			// l, the normal velocity is an unknown tied to that species'
+			// diffusive flux by J_l.n = j_l.n + rho_l v.n = (data): the
+			// rows of the normal velocity unknowns state this constraint
+			// (addWallConstraints) in place of the momentum balance, whose
+			// normal traction is then a reaction.
 			c, err := slipComponent(m, t)
 			if err != nil {
 				return err
@@ -201,18 +240,22 @@ func (d *DiffusiveFlux) fixEssential() error {
 			if err != nil {
 				return err
 			}
-			sw := dfStefan{tag: t, comp: c, normal: nrm, dofs: map[int]bool{}}
+			sw := dfStefan{tag: t, comp: c, normal: nrm, dofs: map[int]bool{}, wall: wall}
 			for _, g := range dofs {
 				if given[g] {
 					continue
 				}
 				d.sys.Fix(d.lay.Offset(blockVX+1-c)+g, 0)
-				d.sys.Fix(d.lay.Offset(blockVX+c)+g, 0)
+				if wall >= 0 {
+					d.sys.Replace(d.lay.Offset(blockVX+c) + g)
+				} else {
+					d.sys.Fix(d.lay.Offset(blockVX+c)+g, 0)
+				}
 				sw.dofs[g] = true
 			}
 			d.stefan = append(d.stefan, sw)
 		default:
-			return fmt.Errorf("physics: boundary %s: the %s condition is not built for the diffusive-flux formulation (given velocity, traction, or a Stefan wall with flux data)", tagLabel(m, t), bc.Velocity.Kind)
+			return fmt.Errorf("physics: boundary %s: the %s condition is not built for the diffusive-flux formulation (given velocity, slip, traction, or a Stefan wall)", tagLabel(m, t), bc.Velocity.Kind)
 		}
 		if kind == SpeciesPotential {
 			d.potentialTags = append(d.potentialTags, t)
@@ -273,6 +316,22 @@ func (d *DiffusiveFlux) couple() {
 			}
 			d.sys.Couple(off(dfBlockJ0+r+i), ud, off(dfBlockJ0+i), fd)
 			d.sys.Couple(off(dfBlockJ0+i), fd, off(dfBlockJ0+r+i), ud)
+		}
+	}
+	// The wall constraints of Stefan walls with composition data tie the
+	// normal velocity to the diffusive fluxes.
+	for _, sw := range d.stefan {
+		if sw.wall < 0 {
+			continue
+		}
+		for _, e := range d.m.BoundaryEdges(sw.tag) {
+			t := d.m.EdgeTriangles[e][0]
+			vd, fd := d.V.Dofs(t), d.F.Dofs(t)
+			for i := 0; i < r; i++ {
+				if sw.wall == i || sw.wall == r {
+					d.sys.Couple(off(blockVX+sw.comp), vd, off(dfBlockJ0+i), fd)
+				}
+			}
 		}
 	}
 }
@@ -525,6 +584,43 @@ func (d *DiffusiveFlux) stefanOf(t int) *dfStefan {
 	return nil
 }
 
+// compositionWall classifies the species data of the Stefan wall with tag
+// t. It returns -1 when every species has flux data (an inlet of given
+// mass fluxes, or a wall of given exchange), and the index l of the one
+// impermeable species when the others have potential data (an evaporating
+// or dissolving surface). Then species l needs flux data (its exchange,
+// usually none) and also the potential that the wall composition gives it:
+// the diffusive-flux formulation imposes the relative potentials of all
+// species there. Other mixes are errors naming the wall.
+func (d *DiffusiveFlux) compositionWall(t int) (int, error) {
+	bc, mix := d.prob.Boundary[t], d.prob.Mixture
+	var flux []int
+	potential := 0
+	for i, sc := range bc.Species {
+		switch sc.Kind {
+		case SpeciesFlux:
+			flux = append(flux, i)
+		case SpeciesPotential:
+			potential++
+		default:
+			return 0, fmt.Errorf("physics: Stefan wall %s: species %q has %s data; a Stefan wall takes flux or composition data", tagLabel(d.m, t), mix.Name(i), sc.Kind)
+		}
+	}
+	switch {
+	case potential == 0:
+		return -1, nil
+	case len(flux) == 0:
+		return 0, fmt.Errorf("physics: Stefan wall %s has composition data for every species; the diffusive-flux formulation needs one impermeable species there, whose balance sets the wall velocity", tagLabel(d.m, t))
+	case len(flux) > 1:
+		return 0, fmt.Errorf("physics: Stefan wall %s has %d species with flux data beside composition data; the diffusive-flux formulation builds one impermeable species there (more would need their wall potentials as unknowns)", tagLabel(d.m, t), len(flux))
+	}
+	l := flux[0]
+	if bc.Species[l].Potential == nil {
+		return 0, fmt.Errorf("physics: Stefan wall %s: the impermeable species %q needs the potential that the wall composition gives it (SpeciesCondition.Potential) for the diffusive-flux formulation", tagLabel(d.m, t), mix.Name(l))
+	}
+	return l, nil
+}
+
 // assemble builds the frozen diffusive-flux system.
 func (d *DiffusiveFlux) assemble(f diffusiveField) (*solver.CSR, []float64, error) {
 	p, n, r, m := d.prob, d.n, d.r, d.m
@@ -738,8 +834,106 @@ func (d *DiffusiveFlux) assemble(f diffusiveField) (*solver.CSR, []float64, erro
 			d.sys.AddVector(off(dfBlockJ0+r+i), ud, nil, fu[i])
 		}
 	}
+	if err := d.addWallConstraints(f); err != nil {
+		return nil, nil, err
+	}
 	A, b := d.sys.Matrix()
 	return A, b, nil
+}
+
+// addWallConstraints writes the rows of the normal velocity unknowns of
+// Stefan walls with composition data. With l the impermeable species,
+// c the normal component and n_c = +-1 its outward normal, the row of
+// velocity unknown a is
+//
+//	int_wall phi_a (rho_l v_c + n_c j_l.n) ds = int_wall phi_a n_c g_l ds,
+//
+// the species' exchange J_l.n = g_l (usually 0) projected on the velocity
+// trace, with rho_l frozen; j_n = -sum_{i<n} j_i when l is the last
+// species.
+func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
+	m, mix := d.m, d.prob.Mixture
+	off := d.lay.Offset
+	nv, nf := d.ve.N, d.fe.N
+	c := make([]float64, d.n)
+	gc := make([][2]float64, d.n)
+	var vv, vj, neg, rhs []float64
+	for _, sw := range d.stefan {
+		if sw.wall < 0 {
+			continue
+		}
+		l := sw.wall
+		g := d.prob.Boundary[sw.tag].Species[l].Flux
+		if vv == nil {
+			vv, vj, neg, rhs = make([]float64, nv*nv), make([]float64, nv*nf), make([]float64, nv*nf), make([]float64, nv)
+		}
+		for _, e := range m.BoundaryEdges(sw.tag) {
+			t := m.EdgeTriangles[e][0]
+			le, err := fem.LocalEdge(m, t, e)
+			if err != nil {
+				return err
+			}
+			af := fem.ElementMap(m, t)
+			sgn := 1.0
+			if af.Det < 0 {
+				sgn = -1
+			}
+			nrm, length := fem.OutwardNormal(m, e)
+			nc := nrm[sw.comp]
+			clear(vv)
+			clear(vj)
+			clear(rhs)
+			for q := 0; q < d.ve.NQ; q++ {
+				xq := af.Point(d.ve.Ref[le][q])
+				if err := f.at(t, xq, c, gc); err != nil {
+					return fmt.Errorf("physics: Stefan wall %s: %w", tagLabel(m, sw.tag), err)
+				}
+				if !(c[l] > 0) {
+					return &StateError{Model: "frozen state", Species: mix.Name(l),
+						Reason: fmt.Sprintf("concentration %g at (%g, %g) on Stefan wall %s is not positive", c[l], xq[0], xq[1], tagLabel(m, sw.tag))}
+				}
+				rhoL := mix.mass[l] * c[l]
+				var gl float64
+				if g != nil {
+					gl = g(xq, nrm)
+				}
+				w := d.ve.W[q]
+				phi := d.ve.Value[le][q*nv : (q+1)*nv]
+				nt := d.fe.Normal[le][q*nf : (q+1)*nf]
+				for a := 0; a < nv; a++ {
+					if phi[a] == 0 {
+						continue
+					}
+					fa := w * phi[a]
+					for b := 0; b < nv; b++ {
+						vv[a*nv+b] += fa * length * rhoL * phi[b]
+					}
+					for b := 0; b < nf; b++ {
+						vj[a*nf+b] += fa * sgn * nc * nt[b]
+					}
+					rhs[a] += fa * length * nc * gl
+				}
+			}
+			vd, fd, fs := d.V.Dofs(t), d.F.Dofs(t), d.F.Signs(t)
+			d.sys.AddReplacement(off(blockVX+sw.comp), vd, nil, off(blockVX+sw.comp), vd, nil, vv)
+			if l < d.r {
+				d.sys.AddReplacement(off(blockVX+sw.comp), vd, nil, off(dfBlockJ0+l), fd, fs, vj)
+			} else {
+				for k, v := range vj {
+					neg[k] = -v
+				}
+				for i := 0; i < d.r; i++ {
+					d.sys.AddReplacement(off(blockVX+sw.comp), vd, nil, off(dfBlockJ0+i), fd, fs, neg)
+				}
+			}
+			for a, gi := range vd {
+				if rhs[a] != 0 {
+					d.sys.AddReplacementRHS(off(blockVX+sw.comp)+gi, rhs[a])
+				}
+			}
+		}
+	}
+	return nil
 }
 
 // boundaryTerms adds the traction on open boundaries and the relative
@@ -755,7 +949,7 @@ func (d *DiffusiveFlux) boundaryTerms(t int, af *fem.Affine, fv [2][]float64, fj
 		}
 		bc := p.Boundary[m.EdgeTags[e]]
 		d.addTraction(&fv, m, bc, e, le, af)
-		if bc.Species[0].Kind != SpeciesPotential {
+		if !slices.Contains(d.potentialTags, m.EdgeTags[e]) {
 			continue
 		}
 		sgn := 1.0

@@ -128,16 +128,39 @@ func TestDiffusiveFluxRejectsUnbuiltConditions(t *testing.T) {
 		edit func(p *Problem)
 		want []string
 	}{
-		{"slip", func(p *Problem) {
-			bc := p.Boundary[3]
-			bc.Velocity = VelocityCondition{Kind: VelocitySlip}
-			p.Boundary[3] = bc
-		}, []string{"tag 3", "slip", "given velocity, traction, or a Stefan wall with flux data"}},
-		{"Stefan wall with composition", func(p *Problem) {
+		{"Stefan wall with composition for every species", func(p *Problem) {
 			bc := p.Boundary[4]
 			bc.Velocity = VelocityCondition{Kind: VelocityStefan}
 			p.Boundary[4] = bc
-		}, []string{"tag 4", "Stefan wall with potential data", "boundary multipliers"}},
+		}, []string{"(tag 4)", "composition data for every species", "one impermeable species"}},
+		{"Stefan wall with two impermeable species", func(p *Problem) {
+			bc := p.Boundary[4]
+			bc.Velocity = VelocityCondition{Kind: VelocityStefan}
+			bc.Species = append([]SpeciesCondition(nil), bc.Species...)
+			bc.Species[1] = SpeciesCondition{Kind: SpeciesFlux}
+			bc.Species[2] = SpeciesCondition{Kind: SpeciesFlux}
+			p.Boundary[4] = bc
+		}, []string{"(tag 4)", "2 species with flux data", "one impermeable species"}},
+		{"impermeable species without wall potential", func(p *Problem) {
+			bc := p.Boundary[4]
+			bc.Velocity = VelocityCondition{Kind: VelocityStefan}
+			bc.Species = append([]SpeciesCondition(nil), bc.Species...)
+			bc.Species[1] = SpeciesCondition{Kind: SpeciesFlux}
+			p.Boundary[4] = bc
+		}, []string{"(tag 4)", `impermeable species "b"`, "potential"}},
+		{"sloped slip wall", func(p *Problem) {
+			sk, err := mesh.Rectangle(0, 0, 2, 1, 4, 2, mesh.AlternatingDiagonal)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i := range sk.Points {
+				sk.Points[i][1] += 0.1 * sk.Points[i][0]
+			}
+			p.Mesh = sk
+			bc := p.Boundary[3]
+			bc.Velocity = VelocityCondition{Kind: VelocitySlip}
+			p.Boundary[3] = bc
+		}, []string{"tag 3", "parallel to a coordinate axis"}},
 		{"mixed data", func(p *Problem) {
 			bc := p.Boundary[4]
 			sp := append([]SpeciesCondition(nil), bc.Species...)
