@@ -92,6 +92,11 @@ type DiffusiveFlux struct {
 	pinnedM []int
 	// lu keeps the ordering and symbolic analysis between solves.
 	lu *solver.LU
+	// wallLambda maps, for each Stefan wall with two impermeable species,
+	// the flux unknowns of its edges to the wall multipliers that follow
+	// the layout's unknowns (nWall of them; see addWallConstraints).
+	wallLambda map[int]map[int]int
+	nWall      int
 }
 
 // dfStefan is a Stefan wall of the diffusive-flux discretisation: its tag,
@@ -103,9 +108,10 @@ type dfStefan struct {
 	comp   int
 	normal [2]float64
 	dofs   map[int]bool
-	// wall is the impermeable species of a wall with composition data,
-	// or -1 for a wall with flux data for every species.
-	wall int
+	// wall lists the impermeable species of a wall with composition data
+	// (one or two); it is empty for a wall with flux data for every
+	// species.
+	wall []int
 }
 
 // NewDiffusiveFlux builds the spaces, the essential set and the sparsity
@@ -129,7 +135,10 @@ func NewDiffusiveFlux(p *Problem) (*DiffusiveFlux, error) {
 		spaces = append(spaces, d.U)
 	}
 	d.lay = fem.NewLayout(spaces...)
-	d.sys = fem.NewPatternSystem(d.lay.Len())
+	if err := d.numberWallMultipliers(); err != nil {
+		return nil, err
+	}
+	d.sys = fem.NewPatternSystem(d.lay.Len() + d.nWall)
 	if err := d.fixEssential(); err != nil {
 		return nil, err
 	}
@@ -143,7 +152,7 @@ func NewDiffusiveFlux(p *Problem) (*DiffusiveFlux, error) {
 func (d *DiffusiveFlux) Layout() *fem.Layout { return d.lay }
 
 // Len returns the number of unknowns.
-func (d *DiffusiveFlux) Len() int { return d.lay.Len() }
+func (d *DiffusiveFlux) Len() int { return d.lay.Len() + d.nWall }
 
 // fixEssential sorts the tags into flux and potential data, fixes the
 // velocity data and declares the normal moments of the diffusive fluxes on
@@ -168,13 +177,13 @@ func (d *DiffusiveFlux) fixEssential() error {
 	for _, t := range m.Tags() {
 		bc := p.Boundary[t]
 		kind := bc.Species[0].Kind
-		wall := -1 // the impermeable species of a Stefan wall with composition data
+		var wall []int // the impermeable species of a Stefan wall with composition data
 		if bc.Velocity.Kind == VelocityStefan {
 			var err error
 			if wall, err = d.compositionWall(t); err != nil {
 				return err
 			}
-			if wall >= 0 {
+			if len(wall) > 0 {
 				kind = SpeciesPotential
 			}
 		}
@@ -182,7 +191,7 @@ func (d *DiffusiveFlux) fixEssential() error {
 			if sc.Relative {
 				return fmt.Errorf("physics: boundary %s, species %q: relative potential data are not built for the diffusive-flux formulation", tagLabel(m, t), p.Mixture.Name(i))
 			}
-			if sc.Kind != kind && i != wall {
+			if sc.Kind != kind && !slices.Contains(wall, i) {
 				return fmt.Errorf("physics: boundary %s mixes flux and potential data (species %q has %s, %q has %s); the diffusive-flux formulation needs one kind for every species of a boundary, except on a Stefan wall with composition data and one impermeable species",
 					tagLabel(m, t), p.Mixture.Name(0), bc.Species[0].Kind, p.Mixture.Name(i), sc.Kind)
 			}
@@ -246,7 +255,7 @@ func (d *DiffusiveFlux) fixEssential() error {
 					continue
 				}
 				d.sys.Fix(d.lay.Offset(blockVX+1-c)+g, 0)
-				if wall >= 0 {
+				if len(wall) > 0 {
 					d.sys.Replace(d.lay.Offset(blockVX+c) + g)
 				} else {
 					d.sys.Fix(d.lay.Offset(blockVX+c)+g, 0)
@@ -321,16 +330,31 @@ func (d *DiffusiveFlux) couple() {
 	// The wall constraints of Stefan walls with composition data tie the
 	// normal velocity to the diffusive fluxes.
 	for _, sw := range d.stefan {
-		if sw.wall < 0 {
+		if len(sw.wall) == 0 {
 			continue
 		}
+		lam := d.wallLambda[sw.tag]
 		for _, e := range d.m.BoundaryEdges(sw.tag) {
 			t := d.m.EdgeTriangles[e][0]
 			vd, fd := d.V.Dofs(t), d.F.Dofs(t)
 			for i := 0; i < r; i++ {
-				if sw.wall == i || sw.wall == r {
+				if sw.wall[0] == i || sw.wall[0] == r {
 					d.sys.Couple(off(blockVX+sw.comp), vd, off(dfBlockJ0+i), fd)
 				}
+			}
+			if lam == nil {
+				continue
+			}
+			var ld []int
+			for _, g := range fd {
+				if l, ok := lam[g]; ok {
+					ld = append(ld, l)
+				}
+			}
+			d.sys.Couple(0, ld, off(blockVX+sw.comp), vd)
+			for i := 0; i < r; i++ {
+				d.sys.Couple(0, ld, off(dfBlockJ0+i), fd)
+				d.sys.Couple(off(dfBlockJ0+i), fd, 0, ld)
 			}
 		}
 	}
@@ -585,14 +609,16 @@ func (d *DiffusiveFlux) stefanOf(t int) *dfStefan {
 }
 
 // compositionWall classifies the species data of the Stefan wall with tag
-// t. It returns -1 when every species has flux data (an inlet of given
-// mass fluxes, or a wall of given exchange), and the index l of the one
-// impermeable species when the others have potential data (an evaporating
-// or dissolving surface). Then species l needs flux data (its exchange,
-// usually none) and also the potential that the wall composition gives it:
-// the diffusive-flux formulation imposes the relative potentials of all
-// species there. Other mixes are errors naming the wall.
-func (d *DiffusiveFlux) compositionWall(t int) (int, error) {
+// t. It returns nil when every species has flux data (an inlet of given
+// mass fluxes, or a wall of given exchange), and the impermeable species
+// (one or two) when the others have potential data (an evaporating or
+// dissolving surface). An impermeable species needs flux data (its
+// exchange, usually none) and also the potential that the wall composition
+// gives it. With one, the diffusive-flux formulation imposes the relative
+// potentials of all species there; with two, their split at the wall is an
+// unknown (a wall multiplier), and the given potentials serve only to fix
+// the sum of their mole fractions. Other mixes are errors naming the wall.
+func (d *DiffusiveFlux) compositionWall(t int) ([]int, error) {
 	bc, mix := d.prob.Boundary[t], d.prob.Mixture
 	var flux []int
 	potential := 0
@@ -603,22 +629,57 @@ func (d *DiffusiveFlux) compositionWall(t int) (int, error) {
 		case SpeciesPotential:
 			potential++
 		default:
-			return 0, fmt.Errorf("physics: Stefan wall %s: species %q has %s data; a Stefan wall takes flux or composition data", tagLabel(d.m, t), mix.Name(i), sc.Kind)
+			return nil, fmt.Errorf("physics: Stefan wall %s: species %q has %s data; a Stefan wall takes flux or composition data", tagLabel(d.m, t), mix.Name(i), sc.Kind)
 		}
 	}
 	switch {
 	case potential == 0:
-		return -1, nil
+		return nil, nil
 	case len(flux) == 0:
-		return 0, fmt.Errorf("physics: Stefan wall %s has composition data for every species; the diffusive-flux formulation needs one impermeable species there, whose balance sets the wall velocity", tagLabel(d.m, t))
-	case len(flux) > 1:
-		return 0, fmt.Errorf("physics: Stefan wall %s has %d species with flux data beside composition data; the diffusive-flux formulation builds one impermeable species there (more would need their wall potentials as unknowns)", tagLabel(d.m, t), len(flux))
+		return nil, fmt.Errorf("physics: Stefan wall %s has composition data for every species; the diffusive-flux formulation needs an impermeable species there, whose balance sets the wall velocity", tagLabel(d.m, t))
+	case len(flux) > 2:
+		return nil, fmt.Errorf("physics: Stefan wall %s has %d species with flux data beside composition data; the diffusive-flux formulation builds one or two impermeable species there", tagLabel(d.m, t), len(flux))
 	}
-	l := flux[0]
-	if bc.Species[l].Potential == nil {
-		return 0, fmt.Errorf("physics: Stefan wall %s: the impermeable species %q needs the potential that the wall composition gives it (SpeciesCondition.Potential) for the diffusive-flux formulation", tagLabel(d.m, t), mix.Name(l))
+	for _, l := range flux {
+		if bc.Species[l].Potential == nil {
+			return nil, fmt.Errorf("physics: Stefan wall %s: the impermeable species %q needs the potential that the wall composition gives it (SpeciesCondition.Potential) for the diffusive-flux formulation", tagLabel(d.m, t), mix.Name(l))
+		}
 	}
-	return l, nil
+	return flux, nil
+}
+
+// numberWallMultipliers numbers, after the layout's unknowns, one wall
+// multiplier per flux unknown on the edges of every Stefan wall with two
+// impermeable species: its basis functions are the normal traces of those
+// flux basis functions, so that it spans the normal traces of the flux
+// space on the wall.
+func (d *DiffusiveFlux) numberWallMultipliers() error {
+	for _, t := range d.m.Tags() {
+		if d.prob.Boundary[t].Velocity.Kind != VelocityStefan {
+			continue
+		}
+		wall, err := d.compositionWall(t)
+		if err != nil {
+			return err
+		}
+		if len(wall) != 2 {
+			continue
+		}
+		dofs, _, err := fem.BoundaryNormalMoments(d.F, []int{t}, func(x, nrm [2]float64) float64 { return 0 })
+		if err != nil {
+			return err
+		}
+		if d.wallLambda == nil {
+			d.wallLambda = map[int]map[int]int{}
+		}
+		lam := map[int]int{}
+		for _, g := range dofs {
+			lam[g] = d.lay.Len() + d.nWall
+			d.nWall++
+		}
+		d.wallLambda[t] = lam
+	}
+	return nil
 }
 
 // assemble builds the frozen diffusive-flux system.
@@ -841,31 +902,47 @@ func (d *DiffusiveFlux) assemble(f diffusiveField) (*solver.CSR, []float64, erro
 	return A, b, nil
 }
 
-// addWallConstraints writes the rows of the normal velocity unknowns of
-// Stefan walls with composition data. With l the impermeable species,
-// c the normal component and n_c = +-1 its outward normal, the row of
-// velocity unknown a is
+// addWallConstraints writes the rows of Stefan walls with composition data.
+// With l the (first) impermeable species, c the normal component and
+// n_c = +-1 its outward normal, the row of velocity unknown a is
 //
 //	int_wall phi_a (rho_l v_c + n_c j_l.n) ds = int_wall phi_a n_c g_l ds,
 //
 // the species' exchange J_l.n = g_l (usually 0) projected on the velocity
 // trace, with rho_l frozen; j_n = -sum_{i<n} j_i when l is the last
 // species.
+//
+// With two impermeable species l1, l2, their split at the wall is unknown:
+// the wall multiplier lambda = mu_l2/M_l2 - mu_l1/M_l1 (in the normal-trace
+// space of the fluxes) takes its place, with J_l2.n = g_l2 tested by that
+// space as its equation. The given potentials of the other species fix
+// x_l1 + x_l2 = X on the ideal-gas equation of state at the reference
+// pressure, and the wall potentials of l1, l2 follow from lambda,
+// linearised about the split of the frozen state. The potential terms
+// -int m_i,b K_i.n of such a wall are added here, not in boundaryTerms.
 func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
 	m, mix := d.m, d.prob.Mixture
 	off := d.lay.Offset
-	nv, nf := d.ve.N, d.fe.N
-	c := make([]float64, d.n)
-	gc := make([][2]float64, d.n)
-	var vv, vj, neg, rhs []float64
+	nv, nf, n, r := d.ve.N, d.fe.N, d.n, d.r
+	last := n - 1
+	c := make([]float64, n)
+	gc := make([][2]float64, n)
+	vv, vj, neg, rhs := make([]float64, nv*nv), make([]float64, nv*nf), make([]float64, nv*nf), make([]float64, nv)
+	cst, coef := make([]float64, n), make([]float64, n)
 	for _, sw := range d.stefan {
-		if sw.wall < 0 {
+		if len(sw.wall) == 0 {
 			continue
 		}
-		l := sw.wall
-		g := d.prob.Boundary[sw.tag].Species[l].Flux
-		if vv == nil {
-			vv, vj, neg, rhs = make([]float64, nv*nv), make([]float64, nv*nf), make([]float64, nv*nf), make([]float64, nv)
+		bc := d.prob.Boundary[sw.tag]
+		l := sw.wall[0]
+		g := bc.Species[l].Flux
+		lam := d.wallLambda[sw.tag]
+		var st *diffusiveState
+		if lam != nil {
+			var ok bool
+			if st, ok = f.(*diffusiveState); !ok {
+				return fmt.Errorf("physics: Stefan wall %s has two impermeable species; its wall potentials need the ideal gas of the nonlinear solve, not a frozen field", tagLabel(m, sw.tag))
+			}
 		}
 		for _, e := range m.BoundaryEdges(sw.tag) {
 			t := m.EdgeTriangles[e][0]
@@ -880,6 +957,26 @@ func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
 			}
 			nrm, length := fem.OutwardNormal(m, e)
 			nc := nrm[sw.comp]
+			vd, fd, fs := d.V.Dofs(t), d.F.Dofs(t), d.F.Signs(t)
+			// The wall multipliers of this edge: global numbers, local
+			// flux basis positions, signs.
+			var ld, lp []int
+			var ls []float64
+			for b, gf := range fd {
+				if k, ok := lam[gf]; ok {
+					ld, lp, ls = append(ld, k), append(lp, b), append(ls, fs[b])
+				}
+			}
+			nl := len(ld)
+			lv := make([]float64, nl*nv) // multiplier rows, velocity columns
+			lj := make([]float64, nl*nf) // multiplier rows, flux columns
+			jl := make([][]float64, r)   // flux rows, multiplier columns
+			lr := make([]float64, nl)    // multiplier right-hand side
+			fr := make([][]float64, r)   // flux right-hand sides
+			for i := 0; i < r; i++ {
+				jl[i] = make([]float64, nf*nl)
+				fr[i] = make([]float64, nf)
+			}
 			clear(vv)
 			clear(vj)
 			clear(rhs)
@@ -888,9 +985,11 @@ func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
 				if err := f.at(t, xq, c, gc); err != nil {
 					return fmt.Errorf("physics: Stefan wall %s: %w", tagLabel(m, sw.tag), err)
 				}
-				if !(c[l] > 0) {
-					return &StateError{Model: "frozen state", Species: mix.Name(l),
-						Reason: fmt.Sprintf("concentration %g at (%g, %g) on Stefan wall %s is not positive", c[l], xq[0], xq[1], tagLabel(m, sw.tag))}
+				for _, k := range sw.wall {
+					if !(c[k] > 0) {
+						return &StateError{Model: "frozen state", Species: mix.Name(k),
+							Reason: fmt.Sprintf("concentration %g at (%g, %g) on Stefan wall %s is not positive", c[k], xq[0], xq[1], tagLabel(m, sw.tag))}
+					}
 				}
 				rhoL := mix.mass[l] * c[l]
 				var gl float64
@@ -913,16 +1012,49 @@ func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
 					}
 					rhs[a] += fa * length * nc * gl
 				}
+				if lam == nil {
+					continue
+				}
+				if err := d.wallPotentials(st, bc, sw.wall, xq, c, cst, coef); err != nil {
+					return fmt.Errorf("physics: Stefan wall %s: %w", tagLabel(m, sw.tag), err)
+				}
+				l2 := sw.wall[1]
+				rho2 := mix.mass[l2] * c[l2]
+				var g2 float64
+				if g2f := bc.Species[l2].Flux; g2f != nil {
+					g2 = g2f(xq, nrm)
+				}
+				for k, b := range lp {
+					psi := nt[b] // times sgn / length: the multiplier's value
+					for a := 0; a < nv; a++ {
+						lv[k*nv+a] += w * sgn * psi * rho2 * nc * phi[a]
+					}
+					for a := 0; a < nf; a++ {
+						lj[k*nf+a] += w * psi * nt[a] / length
+					}
+					lr[k] += w * sgn * psi * g2
+					for i := 0; i < r; i++ {
+						cf := coef[i] - coef[last]
+						for a := 0; a < nf; a++ {
+							jl[i][a*nl+k] += w * cf * nt[a] * psi / length
+						}
+					}
+				}
+				for i := 0; i < r; i++ {
+					mb := cst[i] - cst[last]
+					for a := 0; a < nf; a++ {
+						fr[i][a] -= sgn * w * mb * nt[a]
+					}
+				}
 			}
-			vd, fd, fs := d.V.Dofs(t), d.F.Dofs(t), d.F.Signs(t)
 			d.sys.AddReplacement(off(blockVX+sw.comp), vd, nil, off(blockVX+sw.comp), vd, nil, vv)
-			if l < d.r {
+			if l < r {
 				d.sys.AddReplacement(off(blockVX+sw.comp), vd, nil, off(dfBlockJ0+l), fd, fs, vj)
 			} else {
 				for k, v := range vj {
 					neg[k] = -v
 				}
-				for i := 0; i < d.r; i++ {
+				for i := 0; i < r; i++ {
 					d.sys.AddReplacement(off(blockVX+sw.comp), vd, nil, off(dfBlockJ0+i), fd, fs, neg)
 				}
 			}
@@ -931,8 +1063,65 @@ func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
 					d.sys.AddReplacementRHS(off(blockVX+sw.comp)+gi, rhs[a])
 				}
 			}
+			if lam == nil {
+				continue
+			}
+			l2 := sw.wall[1]
+			d.sys.AddMatrix(0, ld, ls, off(blockVX+sw.comp), vd, nil, lv)
+			if l2 < r {
+				d.sys.AddMatrix(0, ld, ls, off(dfBlockJ0+l2), fd, fs, lj)
+			} else {
+				for k := range lj {
+					lj[k] = -lj[k]
+				}
+				for i := 0; i < r; i++ {
+					d.sys.AddMatrix(0, ld, ls, off(dfBlockJ0+i), fd, fs, lj)
+				}
+			}
+			d.sys.AddVector(0, ld, ls, lr)
+			for i := 0; i < r; i++ {
+				d.sys.AddMatrix(off(dfBlockJ0+i), fd, fs, 0, ld, ls, jl[i])
+				d.sys.AddVector(off(dfBlockJ0+i), fd, fs, fr[i])
+			}
 		}
 	}
+	return nil
+}
+
+// wallPotentials writes, at the point x of a Stefan wall with two
+// impermeable species l1, l2 (wall), the wall potentials mu_i/M_i =
+// cst[i] + coef[i] lambda of every species as functions of the wall
+// multiplier lambda = mu_l2/M_l2 - mu_l1/M_l1, linearised about the split
+// of the frozen concentrations c. On the ideal-gas equation of state at the
+// reference pressure P0, mu_i = RT ln(x_i P0/P_ref): the other species'
+// given potentials fix their mole fractions and X = x_l1 + x_l2; lambda
+// fixes the split, and d x_l1/d lambda follows from differentiating lambda.
+func (d *DiffusiveFlux) wallPotentials(st *diffusiveState, bc BoundaryCondition, wall []int, x [2]float64, c, cst, coef []float64) error {
+	mass := d.prob.Mixture.mass
+	rt, pr, p0 := st.gas.rt, st.gas.pRef, st.p0
+	X := 1.0
+	for i, sc := range bc.Species {
+		if slices.Contains(wall, i) {
+			continue
+		}
+		mu := sc.Potential(x)
+		cst[i], coef[i] = mu/mass[i], 0
+		X -= pr / p0 * math.Exp(mu/rt)
+	}
+	if !(X > 0) {
+		return fmt.Errorf("the given mole fractions at (%g, %g) sum to %g, leaving nothing for the impermeable species", x[0], x[1], 1-X)
+	}
+	l1, l2 := wall[0], wall[1]
+	x1 := X * c[l1] / (c[l1] + c[l2])
+	x2 := X - x1
+	phi1 := rt * math.Log(x1*p0/pr) / mass[l1]
+	phi2 := rt * math.Log(x2*p0/pr) / mass[l2]
+	lambda := phi2 - phi1
+	dx1 := -1 / (rt * (1/(mass[l2]*x2) + 1/(mass[l1]*x1))) // d x1 / d lambda
+	a1 := rt / (mass[l1] * x1) * dx1
+	a2 := -rt / (mass[l2] * x2) * dx1
+	cst[l1], coef[l1] = phi1-a1*lambda, a1
+	cst[l2], coef[l2] = phi2-a2*lambda, a2
 	return nil
 }
 
@@ -949,7 +1138,7 @@ func (d *DiffusiveFlux) boundaryTerms(t int, af *fem.Affine, fv [2][]float64, fj
 		}
 		bc := p.Boundary[m.EdgeTags[e]]
 		d.addTraction(&fv, m, bc, e, le, af)
-		if !slices.Contains(d.potentialTags, m.EdgeTags[e]) {
+		if !slices.Contains(d.potentialTags, m.EdgeTags[e]) || d.wallLambda[m.EdgeTags[e]] != nil {
 			continue
 		}
 		sgn := 1.0
