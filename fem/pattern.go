@@ -25,9 +25,14 @@ type PatternSystem struct {
 	// replaced marks the rows whose element contributions are dropped in
 	// favour of AddReplacement (Replace).
 	replaced []bool
-	pat      *solver.COO
-	a        *solver.CSR
-	rhs      []float64
+	// links[i] lists the rows that receive a multiple of every element
+	// contribution to row i (Link); linkC holds the multiples.
+	links  map[int][]int
+	linkTo []int
+	linkC  []float64
+	pat    *solver.COO
+	a      *solver.CSR
+	rhs    []float64
 }
 
 // NewPatternSystem returns an empty n by n pattern system in its
@@ -76,6 +81,32 @@ func (s *PatternSystem) Replace(i int) {
 	s.replaced[i] = true
 }
 
+// Link declares, in the declaration phase, that every element
+// contribution to row from (AddMatrix, AddVector, AddRHS; whether or not
+// from is replaced) is also added to row to, times a multiple set with
+// SetLink (initially 0). It returns the link's number. Build extends the
+// pattern of row to by that of row from. A row that receives links may not
+// send any. Links express the elimination of a constraint: when
+// unknowns of one kind are tied to unknowns of another, the rows of the
+// latter are combinations of the rows of the former.
+func (s *PatternSystem) Link(from, to int) int {
+	if s.a != nil {
+		panic("fem: PatternSystem.Link after Build")
+	}
+	if s.links == nil {
+		s.links = map[int][]int{}
+	}
+	k := len(s.linkTo)
+	s.links[from] = append(s.links[from], k)
+	s.linkTo = append(s.linkTo, to)
+	s.linkC = append(s.linkC, 0)
+	return k
+}
+
+// SetLink sets the multiple of link k; it keeps its value from one
+// assembly to the next.
+func (s *PatternSystem) SetLink(k int, c float64) { s.linkC[k] = c }
+
 // Couple declares that rows rowOff+rows[a] and columns colOff+cols[b] may
 // hold entries. Call it in the declaration phase for every element block
 // that AddMatrix will later add.
@@ -100,6 +131,22 @@ func (s *PatternSystem) Build() {
 	s.pat = nil
 	keep := solver.NewCOO(s.n, s.n, full.NNZ()+s.n)
 	ptr, idx := full.RowPtr(), full.ColIndices()
+	for from, ks := range s.links {
+		for _, k := range ks {
+			to := s.linkTo[k]
+			if len(s.links[to]) > 0 {
+				panic("fem: PatternSystem.Link to a row that sends links")
+			}
+			if s.fixed[to] {
+				continue
+			}
+			for p := ptr[from]; p < ptr[from+1]; p++ {
+				if j := idx[p]; !s.fixed[j] {
+					keep.Add(to, j, 0)
+				}
+			}
+		}
+	}
 	for i := 0; i < s.n; i++ {
 		keep.Add(i, i, 0)
 		if s.fixed[i] {
@@ -143,39 +190,57 @@ func (s *PatternSystem) add(replacement bool, rowOff int, rows []int, rowSigns [
 	if len(local) != len(rows)*nc {
 		panic("fem: element matrix size mismatch")
 	}
-	ptr, idx := s.a.RowPtr(), s.a.ColIndices()
-	val := s.a.Values()
 	for a, r := range rows {
 		gi := rowOff + r
-		if s.fixed[gi] || s.replaced[gi] != replacement {
+		if s.fixed[gi] {
 			continue
 		}
 		sr := 1.0
 		if rowSigns != nil {
 			sr = rowSigns[a]
 		}
-		lo, hi := ptr[gi], ptr[gi+1]
-		row := idx[lo:hi]
-		for b, c := range cols {
-			v := local[a*nc+b]
-			if v == 0 {
-				continue
+		if !replacement {
+			for _, k := range s.links[gi] {
+				if c := s.linkC[k]; c != 0 {
+					s.addRow(s.linkTo[k], c*sr, colOff, cols, colSigns, local[a*nc:(a+1)*nc])
+				}
 			}
-			if colSigns != nil {
-				v *= colSigns[b]
-			}
-			v *= sr
-			gj := colOff + c
-			if s.fixed[gj] {
-				s.rhs[gi] -= v * s.value[gj]
-				continue
-			}
-			p := searchInts(row, gj)
-			if p < 0 {
-				panic("fem: PatternSystem.AddMatrix outside the declared pattern")
-			}
-			val[lo+p] += v
 		}
+		if s.replaced[gi] != replacement {
+			continue
+		}
+		s.addRow(gi, sr, colOff, cols, colSigns, local[a*nc:(a+1)*nc])
+	}
+}
+
+// addRow adds f times the element row local at row gi.
+func (s *PatternSystem) addRow(gi int, f float64, colOff int, cols []int, colSigns []float64, local []float64) {
+	if s.fixed[gi] {
+		return
+	}
+	ptr, idx := s.a.RowPtr(), s.a.ColIndices()
+	val := s.a.Values()
+	lo, hi := ptr[gi], ptr[gi+1]
+	row := idx[lo:hi]
+	for b, c := range cols {
+		v := local[b]
+		if v == 0 {
+			continue
+		}
+		if colSigns != nil {
+			v *= colSigns[b]
+		}
+		v *= f
+		gj := colOff + c
+		if s.fixed[gj] {
+			s.rhs[gi] -= v * s.value[gj]
+			continue
+		}
+		p := searchInts(row, gj)
+		if p < 0 {
+			panic("fem: PatternSystem.AddMatrix outside the declared pattern")
+		}
+		val[lo+p] += v
 	}
 }
 
@@ -201,22 +266,26 @@ func searchInts(a []int, v int) int {
 // unknowns are skipped.
 func (s *PatternSystem) AddVector(rowOff int, rows []int, rowSigns []float64, local []float64) {
 	for a, r := range rows {
-		gi := rowOff + r
-		if s.fixed[gi] || s.replaced[gi] {
-			continue
-		}
 		v := local[a]
 		if rowSigns != nil {
 			v *= rowSigns[a]
 		}
-		s.rhs[gi] += v
+		s.AddRHS(rowOff+r, v)
 	}
 }
 
 // AddRHS adds v to the right-hand side of unknown i (ignored when fixed or
 // replaced).
 func (s *PatternSystem) AddRHS(i int, v float64) {
-	if !s.fixed[i] && !s.replaced[i] {
+	if s.fixed[i] {
+		return
+	}
+	for _, k := range s.links[i] {
+		if to := s.linkTo[k]; !s.fixed[to] {
+			s.rhs[to] += s.linkC[k] * v
+		}
+	}
+	if !s.replaced[i] {
 		s.rhs[i] += v
 	}
 }

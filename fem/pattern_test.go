@@ -193,3 +193,39 @@ func TestPatternSystemReplace(t *testing.T) {
 		}
 	}
 }
+
+func TestPatternSystemLink(t *testing.T) {
+	// Row 0 is replaced by x0 = 1 and linked to row 1 with multiple 2 and
+	// to row 2 with -1: rows 1 and 2 receive their own element entries
+	// plus those multiples of row 0's; the replaced row 0 keeps only its
+	// replacement. Entries written by hand from these rules.
+	ps := NewPatternSystem(3)
+	ps.Replace(0)
+	k1 := ps.Link(0, 1)
+	k2 := ps.Link(0, 2)
+	ps.Couple(0, []int{0}, 0, []int{0, 1})
+	ps.Couple(0, []int{1, 2}, 0, []int{1, 2})
+	ps.Build()
+	ps.SetLink(k1, 2)
+	ps.SetLink(k2, -1)
+	ps.Reset()
+	ps.AddMatrix(0, []int{0}, nil, 0, []int{0, 1}, nil, []float64{3, 5})
+	ps.AddVector(0, []int{0}, nil, []float64{7})
+	ps.AddMatrix(0, []int{1, 2}, nil, 0, []int{1, 2}, nil, []float64{1, 0, 0, 1})
+	ps.AddVector(0, []int{1, 2}, nil, []float64{1, 1})
+	ps.AddReplacement(0, []int{0}, nil, 0, []int{0}, nil, []float64{1})
+	ps.AddReplacementRHS(0, 1)
+	a, b := ps.Matrix()
+	want := [3][3]float64{{1, 0, 0}, {6, 11, 0}, {-3, -5, 1}}
+	wantB := [3]float64{1, 15, -6}
+	for i := 0; i < 3; i++ {
+		for j := 0; j < 3; j++ {
+			if got := a.At(i, j); got != want[i][j] {
+				t.Errorf("A[%d][%d] = %g, want %g", i, j, got, want[i][j])
+			}
+		}
+		if b[i] != wantB[i] {
+			t.Errorf("b[%d] = %g, want %g", i, b[i], wantB[i])
+		}
+	}
+}

@@ -4,6 +4,9 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
+
+	"gonum.org/v1/gonum/mat"
 
 	"mixwell/fem"
 	"mixwell/mesh"
@@ -112,6 +115,100 @@ type dfStefan struct {
 	// (one or two); it is empty for a wall with flux data for every
 	// species.
 	wall []int
+	// edges holds, per wall edge of a wall with composition data, what
+	// the elimination of its constraint needs (wallRows).
+	edges []wallEdge
+}
+
+// wallEdge is one edge of a Stefan wall with composition data: the edge,
+// its triangle and local edge, the local flux unknowns with a normal trace
+// on it (eb), the local free normal-velocity unknowns with a trace on it
+// (va), and the links from the constrained flux rows to the velocity rows
+// (link[a][b] for va[a], eb[b]).
+type wallEdge struct {
+	e, t, le int
+	eb, va   []int
+	link     [][]int
+}
+
+// wallRows sets up the constraint of the Stefan wall sw with composition
+// data. With l its (first) impermeable species, J_l.n = j_l.n + rho_l v.n
+// = g_l is imposed in the normal-trace space T of the fluxes on the wall:
+// the rows of the flux unknowns of species l on the wall (of the first
+// species when l is the last, whose flux is -sum_{i<n} j_i) state it, in
+// place of their potential conditions. The normal velocity on the wall is
+// then tied to those fluxes, and its rows are the potential conditions
+// tested in the constrained direction: the row of velocity unknown a is
+// sum_b c_ab (row of flux unknown b), where sum_b c_ab psi_b is the L2
+// projection on T of rho_l phi_a (the links, set each assembly by
+// setWallLinks). The momentum balance of the normal velocity is dropped:
+// the wall's normal traction is a reaction. When l is the last species,
+// the admissible directions with the velocity held also keep sum_i j_i.n
+// = 0, so the flux rows of the other species on the wall receive minus the
+// rows of the first (links of multiple -1).
+func (d *DiffusiveFlux) wallRows(sw *dfStefan) error {
+	m := d.m
+	off := d.lay.Offset
+	blk := sw.wall[0]
+	if blk == d.r {
+		blk = 0
+	}
+	nv, nf := d.ve.N, d.fe.N
+	for _, e := range m.BoundaryEdges(sw.tag) {
+		t := m.EdgeTriangles[e][0]
+		le, err := fem.LocalEdge(m, t, e)
+		if err != nil {
+			return err
+		}
+		vd, fd := d.V.Dofs(t), d.F.Dofs(t)
+		we := wallEdge{e: e, t: t, le: le}
+		// Basis functions whose trace on the edge vanishes (to rounding)
+		// are left out.
+		var big float64
+		for _, v := range d.fe.Normal[le] {
+			big = math.Max(big, math.Abs(v))
+		}
+		for b := 0; b < nf; b++ {
+			for q := 0; q < d.fe.NQ; q++ {
+				if math.Abs(d.fe.Normal[le][q*nf+b]) > 1e-10*big {
+					we.eb = append(we.eb, b)
+					break
+				}
+			}
+		}
+		for a := 0; a < nv; a++ {
+			if !sw.dofs[vd[a]] {
+				continue
+			}
+			for q := 0; q < d.ve.NQ; q++ {
+				if math.Abs(d.ve.Value[le][q*nv+a]) > 1e-10 {
+					we.va = append(we.va, a)
+					break
+				}
+			}
+		}
+		for _, b := range we.eb {
+			row := off(dfBlockJ0+blk) + fd[b]
+			if d.sys.Fixed(row) {
+				return fmt.Errorf("physics: Stefan wall %s: a flux unknown on it is held by other data", tagLabel(m, sw.tag))
+			}
+			d.sys.Replace(row)
+			if sw.wall[0] == d.r {
+				for i := 1; i < d.r; i++ {
+					k := d.sys.Link(row, off(dfBlockJ0+i)+fd[b])
+					d.sys.SetLink(k, -1)
+				}
+			}
+		}
+		we.link = make([][]int, len(we.va))
+		for ia, a := range we.va {
+			for _, b := range we.eb {
+				we.link[ia] = append(we.link[ia], d.sys.Link(off(dfBlockJ0+blk)+fd[b], off(blockVX+sw.comp)+vd[a]))
+			}
+		}
+		sw.edges = append(sw.edges, we)
+	}
+	return nil
 }
 
 // NewDiffusiveFlux builds the spaces, the essential set and the sparsity
@@ -262,6 +359,11 @@ func (d *DiffusiveFlux) fixEssential() error {
 				}
 				sw.dofs[g] = true
 			}
+			if len(wall) > 0 {
+				if err := d.wallRows(&sw); err != nil {
+					return err
+				}
+			}
 			d.stefan = append(d.stefan, sw)
 		default:
 			return fmt.Errorf("physics: boundary %s: the %s condition is not built for the diffusive-flux formulation (given velocity, slip, traction, or a Stefan wall)", tagLabel(m, t), bc.Velocity.Kind)
@@ -285,6 +387,9 @@ func (d *DiffusiveFlux) fixEssential() error {
 				d.sys.Fix(d.lay.Offset(dfBlockJ0+i)+g, 0)
 			}
 		}
+	}
+	if err := d.checkWallLevel(); err != nil {
+		return err
 	}
 	d.pinnedM = make([]int, d.r)
 	for i := range d.pinnedM {
@@ -328,7 +433,8 @@ func (d *DiffusiveFlux) couple() {
 		}
 	}
 	// The wall constraints of Stefan walls with composition data tie the
-	// normal velocity to the diffusive fluxes.
+	// normal velocity to the diffusive fluxes; the velocity rows receive
+	// their pattern through the links (wallRows).
 	for _, sw := range d.stefan {
 		if len(sw.wall) == 0 {
 			continue
@@ -337,11 +443,12 @@ func (d *DiffusiveFlux) couple() {
 		for _, e := range d.m.BoundaryEdges(sw.tag) {
 			t := d.m.EdgeTriangles[e][0]
 			vd, fd := d.V.Dofs(t), d.F.Dofs(t)
-			for i := 0; i < r; i++ {
-				if sw.wall[0] == i || sw.wall[0] == r {
-					d.sys.Couple(off(blockVX+sw.comp), vd, off(dfBlockJ0+i), fd)
-				}
+			// The constraint rows (wallRows) see the normal velocity.
+			blk := sw.wall[0]
+			if blk == r {
+				blk = 0
 			}
+			d.sys.Couple(off(dfBlockJ0+blk), fd, off(blockVX+sw.comp), vd)
 			if lam == nil {
 				continue
 			}
@@ -427,19 +534,17 @@ func (d *DiffusiveFlux) solveField(f diffusiveField) (*DiffusiveFluxSolution, er
 	if err != nil {
 		return nil, err
 	}
-	if d.lu == nil {
-		d.lu, err = solver.FactorLU(A, nil)
-	} else {
-		err = d.lu.Refactor(A)
-	}
-	if err != nil {
-		d.lu = nil
-		return nil, fmt.Errorf("physics: factorising the diffusive-flux system (%d unknowns, %d non-zeros): %w", len(b), A.NNZ(), err)
-	}
 	x := make([]float64, len(b))
-	res, err := d.lu.SolveRefinedTo(x, A, b, 2)
+	kept := d.lu != nil
+	res, err := d.factorAndSolve(x, A, b, kept)
+	if kept && (err != nil || math.IsNaN(res) || res > 1e-6) {
+		// The pivot sequence kept from an earlier matrix may not suit
+		// this one (the wall rows change with the state): factorise
+		// afresh.
+		res, err = d.factorAndSolve(x, A, b, false)
+	}
 	if err != nil {
-		return nil, fmt.Errorf("physics: solving the diffusive-flux system: %w", err)
+		return nil, err
 	}
 	if math.IsNaN(res) || res > 1e-6 {
 		return nil, fmt.Errorf("physics: diffusive-flux linear solve inaccurate: relative residual %.3g", res)
@@ -454,6 +559,28 @@ func (d *DiffusiveFlux) solveField(f diffusiveField) (*DiffusiveFluxSolution, er
 		}
 	}
 	return s, nil
+}
+
+// factorAndSolve factorises A, reusing the kept ordering and pivot
+// sequence when refactor is set and with a fresh analysis otherwise, and
+// solves A x = b with two steps of iterative refinement. It returns the
+// relative residual.
+func (d *DiffusiveFlux) factorAndSolve(x []float64, A *solver.CSR, b []float64, refactor bool) (float64, error) {
+	var err error
+	if refactor {
+		err = d.lu.Refactor(A)
+	} else {
+		d.lu, err = solver.FactorLU(A, nil)
+	}
+	if err != nil {
+		d.lu = nil
+		return 0, fmt.Errorf("physics: factorising the diffusive-flux system (%d unknowns, %d non-zeros): %w", len(b), A.NNZ(), err)
+	}
+	res, err := d.lu.SolveRefinedTo(x, A, b, 2)
+	if err != nil {
+		return 0, fmt.Errorf("physics: solving the diffusive-flux system: %w", err)
+	}
+	return res, nil
 }
 
 // LUStats returns the statistics of the last factorisation (zero before
@@ -648,6 +775,29 @@ func (d *DiffusiveFlux) compositionWall(t int) ([]int, error) {
 	return flux, nil
 }
 
+// checkWallLevel rejects a problem whose only composition boundaries are
+// Stefan walls with two impermeable species. Then the frozen step has a
+// null mode: a shift of the relative potential of the two impermeable
+// species, with the multiplier and the others' potentials following, is
+// seen by no equation of the step, and the species balance fixes it only
+// through the frozen state. Fixing one multiplier to the frozen state's
+// value was tried on a mixing channel with such a patch: it converged, but
+// the dropped equation let the second impermeable species through the
+// wall (1.4 to 2.7 % of the released mass flux), so it is not built.
+func (d *DiffusiveFlux) checkWallLevel() error {
+	var names []string
+	for _, t := range d.potentialTags {
+		if d.wallLambda[t] == nil {
+			return nil
+		}
+		names = append(names, tagLabel(d.m, t))
+	}
+	if len(names) == 0 {
+		return nil
+	}
+	return fmt.Errorf("physics: the only composition data are on Stefan wall %s with two impermeable species; the diffusive-flux formulation then cannot fix their split at the wall (it needs a composition boundary elsewhere, such as a reservoir or an open end with a composition, or one impermeable species)", strings.Join(names, ", "))
+}
+
 // numberWallMultipliers numbers, after the layout's unknowns, one wall
 // multiplier per flux unknown on the edges of every Stefan wall with two
 // impermeable species: its basis functions are the normal traces of those
@@ -726,6 +876,9 @@ func (d *DiffusiveFlux) assemble(f diffusiveField) (*solver.CSR, []float64, erro
 	gg := make([][2]float64, n)
 	rhoi := make([]float64, n)
 	d.sys.Reset()
+	if err := d.setWallLinks(f); err != nil {
+		return nil, nil, err
+	}
 	for t := 0; t < m.NumTriangles(); t++ {
 		af := fem.ElementMap(m, t)
 		d.vq.Reinit(&af)
@@ -902,15 +1055,78 @@ func (d *DiffusiveFlux) assemble(f diffusiveField) (*solver.CSR, []float64, erro
 	return A, b, nil
 }
 
-// addWallConstraints writes the rows of Stefan walls with composition data.
-// With l the (first) impermeable species, c the normal component and
-// n_c = +-1 its outward normal, the row of velocity unknown a is
+// setWallLinks sets, before an assembly, the multiples of the links of
+// every Stefan wall with composition data (wallRows): on each wall edge,
+// c_a = G^{-1} h_a with G_bb' = int psi_b psi_b' and h_ab = int psi_b
+// rho_l phi_a, psi_b the normal traces of the edge's flux basis functions,
+// rho_l the frozen partial density of the (first) impermeable species.
+func (d *DiffusiveFlux) setWallLinks(f diffusiveField) error {
+	m, mix := d.m, d.prob.Mixture
+	nv, nf := d.ve.N, d.fe.N
+	c := make([]float64, d.n)
+	gc := make([][2]float64, d.n)
+	for _, sw := range d.stefan {
+		l := -1
+		if len(sw.wall) > 0 {
+			l = sw.wall[0]
+		}
+		for _, we := range sw.edges {
+			ne := len(we.eb)
+			_, length := fem.OutwardNormal(m, we.e)
+			af := fem.ElementMap(m, we.t)
+			sgn := 1.0
+			if af.Det < 0 {
+				sgn = -1
+			}
+			fs := d.F.Signs(we.t)
+			G := mat.NewDense(ne, ne, nil)
+			H := mat.NewDense(ne, max(len(we.va), 1), nil)
+			for q := 0; q < d.ve.NQ; q++ {
+				xq := af.Point(d.ve.Ref[we.le][q])
+				if err := f.at(we.t, xq, c, gc); err != nil {
+					return fmt.Errorf("physics: Stefan wall %s: %w", tagLabel(m, sw.tag), err)
+				}
+				if !(c[l] > 0) {
+					return &StateError{Model: "frozen state", Species: mix.Name(l),
+						Reason: fmt.Sprintf("concentration %g at (%g, %g) on Stefan wall %s is not positive", c[l], xq[0], xq[1], tagLabel(m, sw.tag))}
+				}
+				rhoL := mix.mass[l] * c[l]
+				w := d.ve.W[q]
+				nt := d.fe.Normal[we.le][q*nf : (q+1)*nf]
+				phi := d.ve.Value[we.le][q*nv : (q+1)*nv]
+				for ib, b := range we.eb {
+					pb := fs[b] * nt[b]
+					for jb, b2 := range we.eb {
+						G.Set(ib, jb, G.At(ib, jb)+w*pb*fs[b2]*nt[b2]/length)
+					}
+					for ia, a := range we.va {
+						H.Set(ib, ia, H.At(ib, ia)+w*sgn*pb*rhoL*phi[a])
+					}
+				}
+			}
+			var C mat.Dense
+			if err := C.Solve(G, H); err != nil {
+				return fmt.Errorf("physics: Stefan wall %s: the normal traces on edge %d: %w", tagLabel(m, sw.tag), we.e, err)
+			}
+			for ia := range we.va {
+				for ib := range we.eb {
+					d.sys.SetLink(we.link[ia][ib], C.At(ib, ia))
+				}
+			}
+		}
+	}
+	return nil
+}
+
+// addWallConstraints writes the constraint rows of Stefan walls with
+// composition data (wallRows): with l the (first) impermeable species, c
+// the normal component and n_c = +-1 its outward normal, the row of wall
+// flux unknown b is
 //
-//	int_wall phi_a (rho_l v_c + n_c j_l.n) ds = int_wall phi_a n_c g_l ds,
+//	int_wall psi_b (j_l.n + rho_l n_c v_c) ds = int_wall psi_b g_l ds,
 //
-// the species' exchange J_l.n = g_l (usually 0) projected on the velocity
-// trace, with rho_l frozen; j_n = -sum_{i<n} j_i when l is the last
-// species.
+// the species' exchange J_l.n = g_l (usually 0) in the normal-trace space,
+// with rho_l frozen; j_n = -sum_{i<n} j_i when l is the last species.
 //
 // With two impermeable species l1, l2, their split at the wall is unknown:
 // the wall multiplier lambda = mu_l2/M_l2 - mu_l1/M_l1 (in the normal-trace
@@ -927,7 +1143,6 @@ func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
 	last := n - 1
 	c := make([]float64, n)
 	gc := make([][2]float64, n)
-	vv, vj, neg, rhs := make([]float64, nv*nv), make([]float64, nv*nf), make([]float64, nv*nf), make([]float64, nv)
 	cst, coef := make([]float64, n), make([]float64, n)
 	for _, sw := range d.stefan {
 		if len(sw.wall) == 0 {
@@ -935,6 +1150,10 @@ func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
 		}
 		bc := d.prob.Boundary[sw.tag]
 		l := sw.wall[0]
+		blk := l
+		if blk == r {
+			blk = 0
+		}
 		g := bc.Species[l].Flux
 		lam := d.wallLambda[sw.tag]
 		var st *diffusiveState
@@ -944,12 +1163,8 @@ func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
 				return fmt.Errorf("physics: Stefan wall %s has two impermeable species; its wall potentials need the ideal gas of the nonlinear solve, not a frozen field", tagLabel(m, sw.tag))
 			}
 		}
-		for _, e := range m.BoundaryEdges(sw.tag) {
-			t := m.EdgeTriangles[e][0]
-			le, err := fem.LocalEdge(m, t, e)
-			if err != nil {
-				return err
-			}
+		for _, we := range sw.edges {
+			t, le, e := we.t, we.le, we.e
 			af := fem.ElementMap(m, t)
 			sgn := 1.0
 			if af.Det < 0 {
@@ -958,6 +1173,14 @@ func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
 			nrm, length := fem.OutwardNormal(m, e)
 			nc := nrm[sw.comp]
 			vd, fd, fs := d.V.Dofs(t), d.F.Dofs(t), d.F.Signs(t)
+			ne := len(we.eb)
+			rows, rsg := make([]int, ne), make([]float64, ne)
+			for k, b := range we.eb {
+				rows[k], rsg[k] = fd[b], fs[b]
+			}
+			cv := make([]float64, ne*nv) // constraint rows, velocity columns
+			cj := make([]float64, ne*nf) // constraint rows, flux columns
+			cr := make([]float64, ne)    // constraint right-hand side
 			// The wall multipliers of this edge: global numbers, local
 			// flux basis positions, signs.
 			var ld, lp []int
@@ -977,9 +1200,6 @@ func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
 				jl[i] = make([]float64, nf*nl)
 				fr[i] = make([]float64, nf)
 			}
-			clear(vv)
-			clear(vj)
-			clear(rhs)
 			for q := 0; q < d.ve.NQ; q++ {
 				xq := af.Point(d.ve.Ref[le][q])
 				if err := f.at(t, xq, c, gc); err != nil {
@@ -999,18 +1219,15 @@ func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
 				w := d.ve.W[q]
 				phi := d.ve.Value[le][q*nv : (q+1)*nv]
 				nt := d.fe.Normal[le][q*nf : (q+1)*nf]
-				for a := 0; a < nv; a++ {
-					if phi[a] == 0 {
-						continue
+				for k, b := range we.eb {
+					psi := nt[b] // times sgn / length: the trace's value
+					for a := 0; a < nv; a++ {
+						cv[k*nv+a] += w * sgn * psi * rhoL * nc * phi[a]
 					}
-					fa := w * phi[a]
-					for b := 0; b < nv; b++ {
-						vv[a*nv+b] += fa * length * rhoL * phi[b]
+					for a := 0; a < nf; a++ {
+						cj[k*nf+a] += w * psi * nt[a] / length
 					}
-					for b := 0; b < nf; b++ {
-						vj[a*nf+b] += fa * sgn * nc * nt[b]
-					}
-					rhs[a] += fa * length * nc * gl
+					cr[k] += w * sgn * psi * gl
 				}
 				if lam == nil {
 					continue
@@ -1025,7 +1242,7 @@ func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
 					g2 = g2f(xq, nrm)
 				}
 				for k, b := range lp {
-					psi := nt[b] // times sgn / length: the multiplier's value
+					psi := nt[b]
 					for a := 0; a < nv; a++ {
 						lv[k*nv+a] += w * sgn * psi * rho2 * nc * phi[a]
 					}
@@ -1047,21 +1264,20 @@ func (d *DiffusiveFlux) addWallConstraints(f diffusiveField) error {
 					}
 				}
 			}
-			d.sys.AddReplacement(off(blockVX+sw.comp), vd, nil, off(blockVX+sw.comp), vd, nil, vv)
+			boff := off(dfBlockJ0 + blk)
+			d.sys.AddReplacement(boff, rows, rsg, off(blockVX+sw.comp), vd, nil, cv)
 			if l < r {
-				d.sys.AddReplacement(off(blockVX+sw.comp), vd, nil, off(dfBlockJ0+l), fd, fs, vj)
+				d.sys.AddReplacement(boff, rows, rsg, off(dfBlockJ0+l), fd, fs, cj)
 			} else {
-				for k, v := range vj {
-					neg[k] = -v
+				for k := range cj {
+					cj[k] = -cj[k]
 				}
 				for i := 0; i < r; i++ {
-					d.sys.AddReplacement(off(blockVX+sw.comp), vd, nil, off(dfBlockJ0+i), fd, fs, neg)
+					d.sys.AddReplacement(boff, rows, rsg, off(dfBlockJ0+i), fd, fs, cj)
 				}
 			}
-			for a, gi := range vd {
-				if rhs[a] != 0 {
-					d.sys.AddReplacementRHS(off(blockVX+sw.comp)+gi, rhs[a])
-				}
+			for k, row := range rows {
+				d.sys.AddReplacementRHS(boff+row, rsg[k]*cr[k])
 			}
 			if lam == nil {
 				continue

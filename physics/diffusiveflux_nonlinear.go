@@ -3,6 +3,8 @@ package physics
 import (
 	"fmt"
 	"math"
+	"slices"
+	"time"
 
 	"mixwell/fem"
 	"mixwell/solver"
@@ -22,6 +24,10 @@ type DiffusiveFluxSettings struct {
 	// MaxIterations (default 150) and Anderson Depth (default 20).
 	Tolerance            float64
 	MaxIterations, Depth int
+	// Record, when set, receives every iteration's record. Its
+	// MassAverage is 0: the mass-average constraint holds by
+	// construction.
+	Record func(IterationRecord)
 }
 
 // DiffusiveFluxReport describes a nonlinear diffusive-flux solve.
@@ -29,6 +35,12 @@ type DiffusiveFluxReport struct {
 	Iterations int
 	Converged  bool
 	Residual   float64
+	// Evaluations counts evaluations of the Picard map, the final one
+	// from the converged state included.
+	Evaluations int
+	// History holds one record per iteration, as passed to
+	// DiffusiveFluxSettings.Record.
+	History []IterationRecord
 	// EOSDefect is the largest |sum_i c_i / (P0 + S p) - 1| over the
 	// quadrature points of the final state: zero to the level solve's
 	// tolerance, since the level is taken from the equation of state.
@@ -180,7 +192,9 @@ func (st *diffusiveState) at(t int, x [2]float64, c []float64, gc [][2]float64) 
 // and the pressure; each step freezes the concentrations they imply on the
 // equation of state, solves the linear step and projects its relative
 // potentials. The post-processing of formulation note section 4 is not
-// applied.
+// applied. The returned solution is the step from the final state, and it
+// keeps that state (its frozen field), so that the concentrations of the
+// step remain available (TotalFlux).
 func (d *DiffusiveFlux) SolveNonlinear(s *DiffusiveFluxSettings) (*DiffusiveFluxSolution, *DiffusiveFluxReport, error) {
 	if s == nil || s.Gas == nil || len(s.Initial) != d.n || !(s.Pressure0 > 0) {
 		return nil, nil, fmt.Errorf("physics: SolveNonlinear needs the ideal gas, a positive reference pressure and an initial composition of %d species", d.n)
@@ -246,14 +260,25 @@ func (d *DiffusiveFlux) SolveNonlinear(s *DiffusiveFluxSettings) (*DiffusiveFlux
 	if set.Depth == 0 {
 		set.Depth = 20
 	}
-	res, ferr := solver.SolveFixedPoint(g, x0, set)
 	rep := &DiffusiveFluxReport{}
+	start := time.Now()
+	set.Record = func(r solver.FixedPointRecord) {
+		rec := IterationRecord{Iteration: r.Iteration, Residual: r.Residual, Change: r.Change, Elapsed: time.Since(start)}
+		rep.History = append(rep.History, rec)
+		if s.Record != nil {
+			s.Record(rec)
+		}
+	}
+	res, ferr := solver.SolveFixedPoint(g, x0, set)
 	if res != nil {
 		rep.Iterations, rep.Converged, rep.Residual = res.Iterations, res.Converged, res.Residual
+		rep.Evaluations = res.Evaluations + 1
 		// Solve once more from the final state, so that the solution and
-		// the reported defect belong to it.
-		dst := make([]float64, len(res.X))
-		if err := g(dst, res.X); err != nil {
+		// the reported defect belong to it. The state keeps a copy of
+		// it: the solution's frozen field refers to the state.
+		final := slices.Clone(res.X)
+		dst := make([]float64, len(final))
+		if err := g(dst, final); err != nil {
 			return nil, rep, err
 		}
 		rep.EOSDefect = st.eosD
