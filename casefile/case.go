@@ -234,8 +234,24 @@ const (
 	ScottVogelius PairFamily = "scott-vogelius"
 )
 
+// Formulation names the choice of species unknowns (formulation note,
+// section 10 item 2).
+type Formulation string
+
+// Formulations.
+const (
+	// TotalFlux: the n total mass fluxes J_i and the n potentials mu_i,
+	// with the mass-average constraint imposed by augmentation (remedy (b)
+	// of docs/augmentation.md).
+	TotalFlux Formulation = "total-flux"
+	// DiffusiveFlux: the n-1 diffusive mass fluxes j_i = J_i - rho_i v
+	// and n-1 relative mass potentials, so that sum_i J_i = rho v holds
+	// by construction (remedy (c)); built for the ideal gas only.
+	DiffusiveFlux Formulation = "diffusive-flux"
+)
+
 // Discretisation selects the finite element spaces (formulation note,
-// section 8).
+// section 8) and the formulation.
 type Discretisation struct {
 	// Degree k of the pressure and potential spaces, 1..4 (default 2).
 	Degree int
@@ -246,6 +262,11 @@ type Discretisation struct {
 	// Quadrature is the degree of the triangle quadrature rule; 0 (the
 	// default) means the solver's default for the degree.
 	Quadrature int
+	// Formulation is the choice of species unknowns (default TotalFlux).
+	Formulation Formulation
+	// FormulationPos is where the formulation is written in the case
+	// file (zero when it is not given), for messages of later stages.
+	FormulationPos Position
 }
 
 // VelocityKind names a velocity boundary condition (formulation note,

@@ -57,7 +57,7 @@ func ExampleLoad() {
 	//   3 species: acetone (58.08 g/mol), methanol (32.04 g/mol), air (28.96 g/mol)
 	//   T = 328.5 K, P_ref = 99400 Pa, thermodynamics ideal-gas-at-pressure, viscosity 2e-05 Pa s
 	//   geometry: rectangle [0, 0.002] x [0, 0.238] m, 1 x 64 cells, 16 layers at mouth; boundaries mouth, surface, wall
-	//   discretisation: k = 2, taylor-hood, bdm, quadrature default
+	//   discretisation: k = 2, taylor-hood, bdm, quadrature default, total-flux formulation
 	//   mouth: velocity open at p = 0 Pa; species composition (acetone 0, methanol 0, air 1)
 	//   surface: velocity stefan-wall; species composition (acetone 0.319, methanol 0.528, air 0.153), impermeable to air
 	//   wall: velocity slip; species impermeable

@@ -560,11 +560,11 @@ func (d *decoder) viscosity(n *yaml.Node, sp *speciesSet, c *Case) {
 // discretisation decodes the finite element choices (n may be nil).
 func (d *decoder) discretisation(n *yaml.Node, t *Discretisation) {
 	const path = "discretisation"
-	*t = Discretisation{Degree: 2, Flux: BDM, Pair: TaylorHood}
+	*t = Discretisation{Degree: 2, Flux: BDM, Pair: TaylorHood, Formulation: TotalFlux}
 	if n == nil {
 		return
 	}
-	m := d.mapping(n, path, []string{"degree", "flux", "pair", "quadrature"})
+	m := d.mapping(n, path, []string{"degree", "flux", "pair", "quadrature", "formulation"})
 	if m == nil {
 		return
 	}
@@ -585,6 +585,12 @@ func (d *decoder) discretisation(n *yaml.Node, t *Discretisation) {
 	}
 	if q := m.get("quadrature"); q != nil {
 		t.Quadrature, _ = d.integer(q, join(path, "quadrature"), 0, maxQuadrature)
+	}
+	if f := m.get("formulation"); f != nil {
+		if s, ok := d.word(f, join(path, "formulation"), []string{string(TotalFlux), string(DiffusiveFlux)}); ok {
+			t.Formulation = Formulation(s)
+			t.FormulationPos = d.pos(f)
+		}
 	}
 }
 

@@ -157,6 +157,12 @@ func TestParseErrors(t *testing.T) {
 			at: "5}", col: true, path: "discretisation.degree", msg: "5 is out of range; want 1 to 4"},
 		{name: "misspelt flux family", edit: [][2]string{{"viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\ndiscretisation: {flux: bdn}"}},
 			at: "bdn", col: true, path: "discretisation.flux", msg: `"bdn" is not one of bdm, rt (did you mean "bdm"?)`},
+		{name: "misspelt formulation", edit: [][2]string{{"viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\ndiscretisation: {formulation: difusive-flux}"}},
+			at: "difusive-flux", col: true, path: "discretisation.formulation", msg: `"difusive-flux" is not one of total-flux, diffusive-flux (did you mean "diffusive-flux"?)`},
+		{name: "unknown formulation", edit: [][2]string{{"viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\ndiscretisation:\n  degree: 1\n  formulation: mixed"}},
+			at: "mixed", col: true, path: "discretisation.formulation", msg: `"mixed" is not one of total-flux, diffusive-flux`},
+		{name: "formulation as a list", edit: [][2]string{{"viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\ndiscretisation: {formulation: [total-flux]}"}},
+			at: "[total-flux]", col: true, path: "discretisation.formulation", msg: "want one of total-flux, diffusive-flux, got a list"},
 		{name: "key not used by velocity type", edit: [][2]string{{"velocity: {type: open, pressure: 0}", "velocity: {type: open, speed: 1}"}},
 			at: "speed", col: true, path: "boundaries.top.velocity.speed", msg: `key "speed" is not used by velocity type open; allowed: type, pressure`},
 		{name: "inflow without speed", edit: [][2]string{{"velocity: {type: open, pressure: 0}", "velocity: inflow"}},
@@ -365,7 +371,7 @@ func TestParseDefaults(t *testing.T) {
 	if c.Solver != wantSolver {
 		t.Errorf("solver defaults %+v, want %+v", c.Solver, wantSolver)
 	}
-	wantDisc := casefile.Discretisation{Degree: 2, Flux: casefile.BDM, Pair: casefile.TaylorHood}
+	wantDisc := casefile.Discretisation{Degree: 2, Flux: casefile.BDM, Pair: casefile.TaylorHood, Formulation: casefile.TotalFlux}
 	if c.Discretisation != wantDisc {
 		t.Errorf("discretisation defaults %+v, want %+v", c.Discretisation, wantDisc)
 	}
@@ -522,5 +528,41 @@ func TestParseWarnsAboutClosuresInFlowThrough(t *testing.T) {
 		if w := c.Warnings[0]; w.Line != line || w.Path != tc.path || !strings.Contains(w.Message, tc.msg) {
 			t.Errorf("%s: got %s, want line %d path %q message containing %q", tc.name, w, line, tc.path, tc.msg)
 		}
+	}
+}
+
+// TestParseFormulation checks the values of discretisation.formulation and
+// that the position of the key's value is kept for later messages.
+func TestParseFormulation(t *testing.T) {
+	for _, tc := range []struct {
+		name, text string
+		want       casefile.Formulation
+		at         string // where the value is written; "" when not given
+	}{
+		{"default", baseCase, casefile.TotalFlux, ""},
+		{"total-flux", strings.Replace(baseCase, "viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\ndiscretisation: {degree: 1, formulation: total-flux}", 1),
+			casefile.TotalFlux, "total-flux}"},
+		{"diffusive-flux", strings.Replace(baseCase, "viscosity: 1.8e-5 Pa s", "viscosity: 1.8e-5 Pa s\ndiscretisation:\n  formulation: diffusive-flux", 1),
+			casefile.DiffusiveFlux, "diffusive-flux"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c, err := casefile.Parse("case.yaml", []byte(tc.text))
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := c.Discretisation.Formulation; got != tc.want {
+				t.Errorf("formulation %q, want %q", got, tc.want)
+			}
+			var line, col int
+			if tc.at != "" {
+				line, col = lineCol(tc.text, tc.at)
+			}
+			if p := c.Discretisation.FormulationPos; p.Line != line || p.Column != col || (line > 0 && p.File != "case.yaml") {
+				t.Errorf("formulation position %v, want case.yaml:%d:%d", p, line, col)
+			}
+			if !strings.Contains(c.Summary(), string(tc.want)+" formulation") {
+				t.Errorf("summary does not name the formulation %s:\n%s", tc.want, c.Summary())
+			}
+		})
 	}
 }

@@ -27,7 +27,7 @@ func (c *Case) Summary() string {
 	if dd.Quadrature > 0 {
 		q = fmt.Sprint(dd.Quadrature)
 	}
-	fmt.Fprintf(&b, "  discretisation: k = %d, %s, %s, quadrature %s\n", dd.Degree, dd.Pair, dd.Flux, q)
+	fmt.Fprintf(&b, "  discretisation: k = %d, %s, %s, quadrature %s, %s formulation\n", dd.Degree, dd.Pair, dd.Flux, q, dd.Formulation)
 	for _, bc := range c.Boundaries {
 		fmt.Fprintf(&b, "  %s: velocity %s; species %s\n", bc.Name, velocitySummary(bc.Velocity), c.speciesSummary(bc.Species))
 	}

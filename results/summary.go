@@ -84,6 +84,10 @@ type Flux struct {
 
 // Method describes the discretisation and the nonlinear solver.
 type Method struct {
+	// Formulation is the choice of species unknowns that produced the
+	// results: "total-flux" or "diffusive-flux" (the case's
+	// discretisation.formulation).
+	Formulation string `json:"formulation"`
 	// Nonlinear is the iteration (anderson, picard, newton-krylov) and
 	// Update the concentration update of the Picard map.
 	Nonlinear     string `json:"nonlinear"`
@@ -93,12 +97,15 @@ type Method struct {
 	Evaluations int `json:"evaluations"`
 	// Degree is k of the pressure and potential spaces; the velocity has
 	// degree k+1.
-	Degree              int    `json:"degree"`
-	Pair                string `json:"pair"`
-	Flux                string `json:"flux"`
-	Quadrature          int    `json:"quadrature"` // 0: the solver's default
-	Thermodynamics      string `json:"thermodynamics"`
-	Viscosity           string `json:"viscosity"`
+	Degree         int    `json:"degree"`
+	Pair           string `json:"pair"`
+	Flux           string `json:"flux"`
+	Quadrature     int    `json:"quadrature"` // 0: the solver's default
+	Thermodynamics string `json:"thermodynamics"`
+	Viscosity      string `json:"viscosity"`
+	// SpeciesAugmentation (beta) and Augmentation (gamma) are those of the
+	// total-flux formulation; null with the diffusive-flux formulation,
+	// which has neither.
 	SpeciesAugmentation Number `json:"species_augmentation"`
 	Augmentation        Number `json:"augmentation"`
 	MoleFractionFloor   Number `json:"mole_fraction_floor"`

@@ -257,6 +257,7 @@ func newSummary(r *Run) *Summary {
 		ElementConservation:       Number(o.Diagnostics.Conservation),
 		WallPressureApproximation: Number(o.WallPressure),
 		Method: Method{
+			Formulation:         string(formulation(o)),
 			Nonlinear:           string(c.Solver.Method),
 			Update:              string(c.Solver.Update),
 			Degree:              c.Discretisation.Degree,
@@ -283,6 +284,12 @@ func newSummary(r *Run) *Summary {
 	}
 	if c.Solver.Method == casefile.Anderson {
 		s.Method.AndersonDepth = c.Solver.AndersonDepth
+	}
+	if formulation(o) == casefile.DiffusiveFlux {
+		// Neither augmentation enters the diffusive-flux formulation:
+		// written as null.
+		s.Method.SpeciesAugmentation = Number(math.NaN())
+		s.Method.Augmentation = Number(math.NaN())
 	}
 	s.Scales, s.Groups = scalesInfo(o.Setup.Scales)
 	for _, sp := range c.Species {
@@ -396,6 +403,18 @@ func mapSize(w, h float64) (width, height int) {
 // speciesAugmentation is the beta the solve used: the prepared problem's,
 // or, for an outcome built without one, the case's with "auto" resolved
 // as the solve would.
+// formulation returns the formulation that produced o: the setup's, or
+// the case's when the setup does not say.
+func formulation(o *simulate.Outcome) casefile.Formulation {
+	if f := o.Setup.Formulation; f != "" {
+		return f
+	}
+	if f := o.Setup.Case.Discretisation.Formulation; f != "" {
+		return f
+	}
+	return casefile.TotalFlux
+}
+
 func speciesAugmentation(o *simulate.Outcome) float64 {
 	if o.Setup.Problem != nil {
 		return o.Setup.Problem.SpeciesAugmentation

@@ -213,6 +213,9 @@ func TestWriteSummaryJSON(t *testing.T) {
 	if got["converged"] != true || got["iterations"] != 2.0 || got["unknowns"] != 123.0 {
 		t.Errorf("converged, iterations, unknowns = %v, %v, %v; want true, 2, 123", got["converged"], got["iterations"], got["unknowns"])
 	}
+	if m, _ := got["method"].(map[string]any); m == nil || m["formulation"] != "total-flux" {
+		t.Errorf("method %v, want formulation total-flux", got["method"])
+	}
 	if got["wall_pressure_approximation"] != nil {
 		t.Errorf("NaN written as %v, want null", got["wall_pressure_approximation"])
 	}

@@ -1,9 +1,11 @@
 // Package simulate turns a case (package casefile) into a solved problem:
 // it builds the mesh in SI units, chooses the scales, poses the scaled
 // Stokes–Onsager–Stefan–Maxwell problem (package physics), runs the
-// nonlinear solve and gives the results back in SI units: fields at any
-// point of any triangle, boundary fluxes per named boundary and species,
-// balances and the iteration history. Writing files is left to callers.
+// nonlinear solve of the formulation the case chooses (total or diffusive
+// fluxes) and gives the results back in SI units, in the total-flux layout
+// whichever formulation solved: fields at any point of any triangle,
+// boundary fluxes per named boundary and species, balances and the
+// iteration history. Writing files is left to callers.
 package simulate
 
 import (
@@ -24,8 +26,17 @@ type Setup struct {
 	// Scales are the reference values of the scaled problem.
 	Scales physics.Scales
 	// Problem is the scaled problem and Discretisation its discretisation.
+	// Outcomes are always given on Discretisation (the total-flux layout),
+	// whichever formulation solved the case.
 	Problem        *physics.Problem
 	Discretisation *physics.Discretisation
+	// Formulation is the case's discretisation.formulation. With
+	// casefile.DiffusiveFlux, DiffusiveFlux is the discretisation that
+	// Solve iterates, and its solution is converted to Discretisation's
+	// layout (physics.DiffusiveFluxSolution.TotalFlux); it is nil
+	// otherwise.
+	Formulation   casefile.Formulation
+	DiffusiveFlux *physics.DiffusiveFlux
 	// Closure is the scaled thermodynamic closure.
 	Closure physics.Closure
 

@@ -189,6 +189,9 @@ func (s *Setup) pose() error {
 	if err != nil {
 		return fmt.Errorf("%s: thermodynamics: %w", c.Source, err)
 	}
+	if err := s.checkFormulation(); err != nil {
+		return err
+	}
 	visc, err := s.siViscosity()
 	if err != nil {
 		return err
@@ -293,6 +296,45 @@ func (s *Setup) pose() error {
 		return fmt.Errorf("%s: %w", c.Source, err)
 	}
 	s.Discretisation = d
+	if s.Formulation == casefile.DiffusiveFlux {
+		if s.DiffusiveFlux, err = physics.NewDiffusiveFlux(p); err != nil {
+			return fmt.Errorf("%s: %w", c.Source, err)
+		}
+	}
+	return nil
+}
+
+// checkFormulation records the case's formulation and checks that the
+// diffusive-flux formulation gets what it is built for: the plain ideal
+// gas (the level of its potentials comes from the equation of state) and
+// the Anderson iteration of the potentials (physics.DiffusiveFlux.
+// SolveNonlinear). Errors name the case file, the position of
+// discretisation.formulation and the field at odds with it.
+func (s *Setup) checkFormulation() error {
+	c := s.Case
+	s.Formulation = c.Discretisation.Formulation
+	if s.Formulation == "" {
+		s.Formulation = casefile.TotalFlux
+	}
+	if s.Formulation != casefile.DiffusiveFlux {
+		return nil
+	}
+	at := c.Discretisation.FormulationPos
+	if at.File == "" {
+		at.File = c.Source
+	}
+	if _, ok := s.Closure.(*physics.IdealGas); !ok {
+		return fmt.Errorf("%s: discretisation.formulation: diffusive-flux is built only for the ideal gas (thermodynamics: %s), but thermodynamics is %s; use formulation total-flux for other models",
+			at, casefile.IdealGas, c.Thermodynamics.Model)
+	}
+	if m := c.Solver.Method; m != "" && m != casefile.Anderson {
+		return fmt.Errorf("%s: discretisation.formulation: diffusive-flux iterates with solver.method %s only, but solver.method is %s",
+			at, casefile.Anderson, m)
+	}
+	if u := c.Solver.Update; u != "" && u != casefile.PotentialUpdate {
+		return fmt.Errorf("%s: discretisation.formulation: diffusive-flux updates the state through the potentials (solver.update %s) only, but solver.update is %s",
+			at, casefile.PotentialUpdate, u)
+	}
 	return nil
 }
 
@@ -451,7 +493,12 @@ func (s *Setup) boundary(sm *mesh.Mesh, tag int, b casefile.Boundary) (physics.B
 		}
 		for i := range bc.Species {
 			if spc.Impermeable != nil && spc.Impermeable[i] {
-				bc.Species[i] = physics.SpeciesCondition{Kind: physics.SpeciesFlux}
+				// Impermeable: zero flux. The potential the composition
+				// gives it is kept for the diffusive-flux formulation,
+				// whose Stefan walls need it; the total-flux one reads
+				// potentials of potential data only.
+				v := mu[i]
+				bc.Species[i] = physics.SpeciesCondition{Kind: physics.SpeciesFlux, Potential: func([2]float64) float64 { return v }}
 				continue
 			}
 			v := mu[i]
@@ -474,8 +521,14 @@ func (s *Setup) boundary(sm *mesh.Mesh, tag int, b casefile.Boundary) (physics.B
 // scaledMass returns the scaled molar mass of species i.
 func (s *Setup) scaledMass(i int) float64 { return s.mix.MolarMass(i) / s.Scales.MolarMass() }
 
-// Unknowns returns the number of unknowns of the discrete system.
-func (s *Setup) Unknowns() int { return s.Discretisation.Len() }
+// Unknowns returns the number of unknowns of the discrete system that is
+// solved: that of the diffusive-flux formulation when the case chooses it.
+func (s *Setup) Unknowns() int {
+	if s.DiffusiveFlux != nil {
+		return s.DiffusiveFlux.Len()
+	}
+	return s.Discretisation.Len()
+}
 
 // Describe summarises the mesh, the unknowns and the scales.
 func (s *Setup) Describe() string {
@@ -491,8 +544,8 @@ func (s *Setup) Describe() string {
 		fmt.Fprintf(&b, "  boundary %-16s %d edges\n", name, len(m.BoundaryEdges(s.tagOf[name])))
 	}
 	k := s.Case.Discretisation.Degree
-	fmt.Fprintf(&b, "discretisation: degree %d (velocity P%d, pressure P%d, fluxes %s, potentials DG%d), %d unknowns\n",
-		k, k+1, k, s.Problem.Flux, k, s.Unknowns())
+	fmt.Fprintf(&b, "discretisation: degree %d (velocity P%d, pressure P%d, fluxes %s, potentials DG%d), %s formulation, %d unknowns\n",
+		k, k+1, k, s.Problem.Flux, k, s.Formulation, s.Unknowns())
 	b.WriteString(s.Scales.String())
 	fmt.Fprintf(&b, "\n  %-24s %-8s = %.6e\n", "pressure scales ratio", "p/cRT", s.Scales.Pressure()/s.Scales.ThermodynamicPressure())
 	return b.String()

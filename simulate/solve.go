@@ -1,12 +1,14 @@
 package simulate
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"time"
 
 	"mixwell/fem"
 	"mixwell/physics"
+	"mixwell/solver"
 )
 
 // Solve runs the nonlinear iteration of the case's solver settings. record,
@@ -14,6 +16,9 @@ import (
 // converge, Solve returns the outcome of the last iterate together with the
 // error.
 func (s *Setup) Solve(record func(physics.IterationRecord)) (*Outcome, error) {
+	if s.DiffusiveFlux != nil {
+		return s.solveDiffusiveFlux(record)
+	}
 	c := s.Case
 	meth, err := method(c.Solver.Method)
 	if err != nil {
@@ -44,6 +49,66 @@ func (s *Setup) Solve(record func(physics.IterationRecord)) (*Outcome, error) {
 	}
 	o := &Outcome{Setup: s, Solution: sol, Report: rep, Elapsed: time.Since(start)}
 	if rep != nil {
+		o.Converged, o.Iterations, o.Residual = rep.Converged, rep.Iterations, rep.Residual
+	}
+	o.summarise()
+	return o, serr
+}
+
+// solveDiffusiveFlux runs the nonlinear iteration of the diffusive-flux
+// formulation (physics.DiffusiveFlux.SolveNonlinear) with the case's
+// tolerance, iteration limit and Anderson depth, from the reference
+// composition, and converts its solution into the total-flux layout of
+// s.Discretisation, on which the outcome is built as for the total-flux
+// formulation.
+func (s *Setup) solveDiffusiveFlux(record func(physics.IterationRecord)) (*Outcome, error) {
+	c := s.Case
+	gas, ok := s.Closure.(*physics.IdealGas)
+	if !ok {
+		// Prepare refuses any other closure with this formulation.
+		return nil, fmt.Errorf("%s: discretisation.formulation: diffusive-flux needs the ideal gas", c.Source)
+	}
+	x0, err := s.referenceComposition()
+	if err != nil {
+		return nil, fmt.Errorf("%s: initial composition: %w", c.Source, err)
+	}
+	start := time.Now()
+	sol, rep, serr := s.DiffusiveFlux.SolveNonlinear(&physics.DiffusiveFluxSettings{
+		Gas:           gas,
+		Pressure0:     s.pressure,
+		Initial:       x0,
+		Tolerance:     c.Solver.Tolerance,
+		MaxIterations: c.Solver.MaxIterations,
+		Depth:         c.Solver.AndersonDepth,
+		Record:        record,
+	})
+	if serr != nil {
+		serr = fmt.Errorf("diffusive-flux formulation: %w", serr)
+	}
+	if sol == nil {
+		if serr == nil {
+			serr = fmt.Errorf("diffusive-flux formulation: no solution")
+		}
+		return nil, serr
+	}
+	tf, err := sol.TotalFlux(s.Discretisation)
+	if err != nil {
+		return nil, errors.Join(serr, err)
+	}
+	o := &Outcome{Setup: s, Solution: tf, Elapsed: time.Since(start)}
+	if rep != nil {
+		// The iteration updates the state through the (relative)
+		// potentials projected onto the velocity space, the potential
+		// update of the total-flux iteration.
+		o.Report = &physics.NonlinearReport{
+			Method:      solver.Anderson.String(),
+			Update:      physics.PotentialProjection.String(),
+			Converged:   rep.Converged,
+			Iterations:  rep.Iterations,
+			Evaluations: rep.Evaluations,
+			Residual:    rep.Residual,
+			History:     rep.History,
+		}
 		o.Converged, o.Iterations, o.Residual = rep.Converged, rep.Iterations, rep.Residual
 	}
 	o.summarise()
