@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"slices"
-	"strings"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -100,6 +99,15 @@ type DiffusiveFlux struct {
 	// the layout's unknowns (nWall of them; see addWallConstraints).
 	wallLambda map[int]map[int]int
 	nWall      int
+	// levelSpecies lists the species whose relative potential is pinned
+	// in one element, its constant being set by the species balance in
+	// the nonlinear iteration (all of them when no boundary gives a
+	// composition; see wallLevelSpecies for the other case).
+	levelSpecies []int
+	// wallLevel marks the case of wallLevelSpecies: the pinned value
+	// follows the frozen state (pinWallLevel), and the step's pinned
+	// potential keeps it.
+	wallLevel bool
 }
 
 // dfStefan is a Stefan wall of the diffusive-flux discretisation: its tag,
@@ -388,17 +396,23 @@ func (d *DiffusiveFlux) fixEssential() error {
 			}
 		}
 	}
-	if err := d.checkWallLevel(); err != nil {
-		return err
+	d.levelSpecies = nil
+	if len(d.potentialTags) == 0 {
+		for i := 0; i < d.r; i++ {
+			d.levelSpecies = append(d.levelSpecies, i)
+		}
+	} else if p := d.wallLevelSpecies(); p >= 0 {
+		d.levelSpecies = []int{p}
+		d.wallLevel = true
 	}
 	d.pinnedM = make([]int, d.r)
 	for i := range d.pinnedM {
 		d.pinnedM[i] = -1
-		if len(d.potentialTags) == 0 {
-			g := d.lay.Offset(dfBlockJ0+d.r+i) + d.U.Dofs(0)[0]
-			d.sys.Fix(g, 0)
-			d.pinnedM[i] = g
-		}
+	}
+	for _, i := range d.levelSpecies {
+		g := d.lay.Offset(dfBlockJ0+d.r+i) + d.U.Dofs(0)[0]
+		d.sys.Fix(g, 0)
+		d.pinnedM[i] = g
 	}
 	if allVelocityEssential {
 		g := d.lay.Offset(blockP) + d.P.Dofs(0)[0]
@@ -530,6 +544,7 @@ func (d *DiffusiveFlux) solveField(f diffusiveField) (*DiffusiveFluxSolution, er
 	if err := d.setFluxData(f); err != nil {
 		return nil, err
 	}
+	d.pinWallLevel(f)
 	A, b, err := d.assemble(f)
 	if err != nil {
 		return nil, err
@@ -554,7 +569,7 @@ func (d *DiffusiveFlux) solveField(f diffusiveField) (*DiffusiveFluxSolution, er
 		shiftMean(d.P, s.Pressure())
 	}
 	for i, g := range d.pinnedM {
-		if g >= 0 {
+		if g >= 0 && !d.wallLevel {
 			shiftMean(d.U, s.RelativePotential(i))
 		}
 	}
@@ -775,27 +790,69 @@ func (d *DiffusiveFlux) compositionWall(t int) ([]int, error) {
 	return flux, nil
 }
 
-// checkWallLevel rejects a problem whose only composition boundaries are
-// Stefan walls with two impermeable species. Then the frozen step has a
-// null mode: a shift of the relative potential of the two impermeable
-// species, with the multiplier and the others' potentials following, is
-// seen by no equation of the step, and the species balance fixes it only
-// through the frozen state. Fixing one multiplier to the frozen state's
-// value was tried on a mixing channel with such a patch: it converged, but
-// the dropped equation let the second impermeable species through the
-// wall (1.4 to 2.7 % of the released mass flux), so it is not built.
-func (d *DiffusiveFlux) checkWallLevel() error {
-	var names []string
+// wallLevelSpecies returns, when every composition boundary is a Stefan
+// wall with two impermeable species, one of those species other than the
+// last (-1 otherwise). Then the frozen step has a null mode: a shift of the
+// relative potential of the two impermeable species, with the multiplier
+// and the others' potentials following, which the species balance fixes
+// only through the frozen state. The relative potential of the species
+// returned is pinned in one element, and the nonlinear iteration sets its
+// constant by that species' balance (levelByBalance), as it sets all
+// constants when no boundary gives a composition. (Pinning a multiplier
+// instead was tried on a mixing channel with such a patch: it converged,
+// but the dropped equation let the second impermeable species through the
+// wall, 1.4 to 2.7 % of the released flux.)
+func (d *DiffusiveFlux) wallLevelSpecies() int {
+	p := -1
 	for _, t := range d.potentialTags {
 		if d.wallLambda[t] == nil {
-			return nil
+			return -1
 		}
-		names = append(names, tagLabel(d.m, t))
+		if p < 0 {
+			for _, sw := range d.stefan {
+				if sw.tag == t {
+					p = sw.wall[0]
+					if p == d.r {
+						p = sw.wall[1]
+					}
+				}
+			}
+		}
 	}
-	if len(names) == 0 {
-		return nil
+	return p
+}
+
+// pinWallLevel sets, in the case of wallLevelSpecies, the pinned
+// coefficient (the constant mode of element 0) of the pinned species'
+// relative potential to that of the frozen state, so that a step keeps the
+// state's level along its null mode and the species balance alone moves it
+// (levelByBalance). Unlike a shift of the step's solution, which would move
+// only one part of the null mode (the multiplier and the other potentials
+// follow it), the pin selects a solution of the step. A frozen field
+// without a state keeps 0.
+func (d *DiffusiveFlux) pinWallLevel(f diffusiveField) {
+	st, ok := f.(*diffusiveState)
+	if !d.wallLevel || !ok {
+		return
 	}
-	return fmt.Errorf("physics: the only composition data are on Stefan wall %s with two impermeable species; the diffusive-flux formulation then cannot fix their split at the wall (it needs a composition boundary elsewhere, such as a reservoir or an open end with a composition, or one impermeable species)", strings.Join(names, ", "))
+	p := d.levelSpecies[0]
+	nV, nv := d.V.Len(), d.V.LocalLen()
+	m := st.x[p*nV : (p+1)*nV]
+	af := fem.ElementMap(d.m, 0)
+	d.vq.Reinit(&af)
+	vd := d.V.Dofs(0)
+	var integral, area float64
+	for q := 0; q < d.vq.NQ; q++ {
+		var v float64
+		for a := 0; a < nv; a++ {
+			v += d.vq.Val[q*nv+a] * m[vd[a]]
+		}
+		integral += d.vq.W[q] * v
+		area += d.vq.W[q]
+	}
+	psi := make([]float64, d.U.LocalLen())
+	d.potEl.ValuesTo(psi, [2]float64{1.0 / 3, 1.0 / 3})
+	d.sys.Fix(d.pinnedM[p], integral/area/psi[0])
 }
 
 // numberWallMultipliers numbers, after the layout's unknowns, one wall

@@ -221,7 +221,7 @@ func (d *DiffusiveFlux) SolveNonlinear(s *DiffusiveFluxSettings) (*DiffusiveFlux
 	// outgoing composition carries no information about it: the level is
 	// fixed by the species balance instead (levelByBalance).
 	var lv *levelByBalance
-	if len(d.potentialTags) == 0 {
+	if len(d.levelSpecies) > 0 {
 		if lv, err = newLevelByBalance(d, st); err != nil {
 			return nil, nil, err
 		}
@@ -354,14 +354,16 @@ func (p *massProjector) projectDG(dst, c []float64) error {
 	return err
 }
 
-// levelByBalance fixes the constants of the relative potentials when no
-// boundary gives a composition: after each step it shifts the projected
-// m_1..m_{n-1} by constants s so that every species leaves through the
-// outflow boundaries as much as the step brings in through the others,
-// int_out M_i c_i(m + s, p) v.n = -int_in (j_i.n + rho_i v.n), solved by
-// Newton's method with a difference Jacobian. (The role that section 10
-// item 4a of the formulation note gives the linearised outgoing
-// composition.)
+// levelByBalance fixes the constants of the relative potentials that no
+// boundary datum fixes (DiffusiveFlux.levelSpecies: all of them when no
+// boundary gives a composition, one when the only compositions are on
+// Stefan walls with two impermeable species): after each step it shifts
+// those projected m_i by constants s so that each such species leaves
+// through the outflow boundaries as much as the step brings in through the
+// others, int_out M_i c_i(m + s, p) v.n = -int_in (j_i.n + rho_i v.n),
+// solved by Newton's method with a difference Jacobian (by a bracketed
+// secant for one species). (The role that section 10 item 4a of the
+// formulation note gives the linearised outgoing composition.)
 type levelByBalance struct {
 	d       *DiffusiveFlux
 	st      *diffusiveState
@@ -403,23 +405,23 @@ func (lv *levelByBalance) setTarget(sol *DiffusiveFluxSolution) error {
 	return nil
 }
 
-// outflow writes into f the outward flow of the first n-1 species through
-// the outflow boundaries for the state x and the velocity of sol, minus
-// the targets.
+// outflow writes into f[k] the outward flow of species d.levelSpecies[k]
+// through the outflow boundaries for the state x and the velocity of sol,
+// minus its target.
 func (lv *levelByBalance) outflow(f []float64, x []float64, sol *DiffusiveFluxSolution) error {
 	save := lv.st.x
 	lv.st.x = x
 	defer func() { lv.st.x = save }()
-	for i := range f {
-		f[i] = -lv.target[i]
+	for k, i := range lv.d.levelSpecies {
+		f[k] = -lv.target[i]
 	}
 	for _, t := range lv.outTags {
 		flow, err := sol.BoundaryMassFlow(t)
 		if err != nil {
 			return err
 		}
-		for i := range f {
-			f[i] += flow[i]
+		for k, i := range lv.d.levelSpecies {
+			f[k] += flow[i]
 		}
 	}
 	return nil
@@ -428,22 +430,27 @@ func (lv *levelByBalance) outflow(f []float64, x []float64, sol *DiffusiveFluxSo
 // fix shifts the relative-potential blocks of x so that the balance holds.
 func (lv *levelByBalance) fix(x []float64, sol *DiffusiveFluxSolution) error {
 	d := lv.d
-	r, nV := d.r, d.V.Len()
+	nV := d.V.Len()
+	r := len(d.levelSpecies)
 	f := make([]float64, r)
 	fp := make([]float64, r)
 	jac := make([]float64, r*r)
-	shift := func(i int, s float64) {
+	shift := func(k int, s float64) {
+		i := d.levelSpecies[k]
 		blk := x[i*nV : (i+1)*nV]
 		for a := range blk {
 			blk[a] += s
 		}
 	}
 	var scale float64
-	for i := 0; i < r; i++ {
+	for _, i := range d.levelSpecies {
 		scale = math.Max(scale, math.Abs(lv.target[i]))
 	}
 	if scale == 0 {
 		scale = 1
+	}
+	if r == 1 {
+		return lv.fixOne(x, sol, shift, scale)
 	}
 	for it := 0; it < 30; it++ {
 		if err := lv.outflow(f, x, sol); err != nil {
@@ -475,6 +482,75 @@ func (lv *levelByBalance) fix(x []float64, sol *DiffusiveFluxSolution) error {
 		luSolve(jac, r, piv, ds)
 		for k := 0; k < r; k++ {
 			shift(k, -ds[k])
+		}
+	}
+	return fmt.Errorf("physics: the species balance that fixes the level of the potentials did not converge")
+}
+
+// fixOne is fix for one species, whose outflow increases with the shift
+// of its relative potential: the shift is bracketed by doubling steps from
+// 0 and then found by the Illinois variant of regula falsi, which keeps the
+// bracket (a Newton step from a state whose outflow is saturated, far from
+// the balance, has a vanishing slope).
+func (lv *levelByBalance) fixOne(x []float64, sol *DiffusiveFluxSolution, shift func(k int, s float64), scale float64) error {
+	f := make([]float64, 1)
+	at := 0.0
+	eval := func(s float64) (float64, error) {
+		shift(0, s-at)
+		at = s
+		err := lv.outflow(f, x, sol)
+		return f[0], err
+	}
+	a, fa := 0.0, 0.0
+	var err error
+	if fa, err = eval(0); err != nil {
+		return err
+	}
+	if math.Abs(fa) < 1e-13*scale {
+		return nil
+	}
+	// The outflow grows with the shift: search against the sign of fa.
+	dir := -1.0
+	if fa < 0 {
+		dir = 1
+	}
+	b, fb := a, fa
+	for step := 0.25; ; step *= 2 {
+		if step > 64 {
+			shift(0, -at)
+			return fmt.Errorf("physics: fixing the level of the potentials by the species balance: no shift within %g brings the outflow of species %q to its inflow", 64.0, lv.d.prob.Mixture.Name(lv.d.levelSpecies[0]))
+		}
+		b = dir * step
+		if fb, err = eval(b); err != nil {
+			return err
+		}
+		if math.Signbit(fb) != math.Signbit(fa) {
+			break
+		}
+		a, fa = b, fb
+	}
+	side := 0
+	for it := 0; it < 200; it++ {
+		c := (a*fb - b*fa) / (fb - fa)
+		fc, err := eval(c)
+		if err != nil {
+			return err
+		}
+		if math.Abs(fc) < 1e-13*scale || math.Abs(b-a) < 1e-14*math.Max(1, math.Abs(c)) {
+			return nil
+		}
+		if math.Signbit(fc) == math.Signbit(fb) {
+			b, fb = c, fc
+			if side == -1 {
+				fa /= 2
+			}
+			side = -1
+		} else {
+			a, fa = c, fc
+			if side == 1 {
+				fb /= 2
+			}
+			side = 1
 		}
 	}
 	return fmt.Errorf("physics: the species balance that fixes the level of the potentials did not converge")

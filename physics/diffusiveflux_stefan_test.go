@@ -2,7 +2,6 @@ package physics
 
 import (
 	"math"
-	"strings"
 	"testing"
 
 	"mixwell/mesh"
@@ -272,9 +271,38 @@ func TestDiffusiveFluxPatchOnMixingChannel(t *testing.T) {
 	t.Logf("%d iterations, patch flows %.4g, element balances %.2g", rep.Iterations, patch, cons)
 
 	// With both b and c impermeable and no composition boundary elsewhere
-	// the split of b and c at the wall has no datum in a step: refused.
-	prob2, _, _ := patchedMixingChannel(t, 16, []int{1, 2})
-	if _, err := NewDiffusiveFlux(prob2); err == nil || !strings.Contains(err.Error(), `"patch" (tag 5)`) || !strings.Contains(err.Error(), "two impermeable species") {
-		t.Errorf("error %v, want one naming the patch and its two impermeable species", err)
+	// the split of b and c at the wall has no datum in a step; the
+	// iteration pins b's relative potential in one element and sets its
+	// level by b's balance. Measured on 16 / 32 / 64 columns: 42 / 43 /
+	// 47 iterations, patch flux of a -0.0316 / -0.0329 / -0.0335, b and c
+	// through the patch below 1e-17. (b) with beta 0.3 on the same
+	// problem: -0.0354 / -0.0363 / -0.0369 with a mass-average defect of
+	// 2.7e-3 that does not fall: the two differ by 10 %, which this test
+	// does not settle (docs/augmentation.md).
+	prob2, gas2, mean2 := patchedMixingChannel(t, 16, []int{1, 2})
+	d2, err := NewDiffusiveFlux(prob2)
+	if err != nil {
+		t.Fatal(err)
 	}
+	sol2, rep2, err := d2.SolveNonlinear(&DiffusiveFluxSettings{Gas: gas2, Pressure0: 1, Initial: mean2, MaxIterations: 80})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !rep2.Converged || rep2.Iterations > 60 {
+		t.Errorf("two impermeable species: converged %v after %d iterations, want convergence within 60", rep2.Converged, rep2.Iterations)
+	}
+	patch2, err := sol2.BoundaryMassFlow(5)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(patch2[0] < 0) || !(math.Abs(patch2[1]) < 1e-12*math.Abs(patch2[0])) || !(math.Abs(patch2[2]) < 1e-12*math.Abs(patch2[0])) {
+		t.Errorf("two impermeable species: patch flows %v, want a released and b, c not crossing", patch2)
+	}
+	cons2 := sol2.Conservation()
+	for i := 0; i < 2; i++ {
+		if !(cons2[i] < 1e-9) {
+			t.Errorf("two impermeable species: species %d element balance defect %.3g, want < 1e-9", i, cons2[i])
+		}
+	}
+	t.Logf("two impermeable species: %d iterations, patch flows %.4g, element balances %.2g", rep2.Iterations, patch2, cons2)
 }
