@@ -297,7 +297,7 @@ func (d *DiffusiveFlux) fixEssential() error {
 				return fmt.Errorf("physics: boundary %s, species %q: relative potential data are not built for the diffusive-flux formulation", tagLabel(m, t), p.Mixture.Name(i))
 			}
 			if sc.Kind != kind && !slices.Contains(wall, i) {
-				return fmt.Errorf("physics: boundary %s mixes flux and potential data (species %q has %s, %q has %s); the diffusive-flux formulation needs one kind for every species of a boundary, except on a Stefan wall with composition data and one impermeable species",
+				return fmt.Errorf("physics: boundary %s mixes flux and potential data (species %q has %s, %q has %s); the diffusive-flux formulation needs one kind for every species of a boundary, except on a Stefan wall with composition data and one or two impermeable species",
 					tagLabel(m, t), p.Mixture.Name(0), bc.Species[0].Kind, p.Mixture.Name(i), sc.Kind)
 			}
 		}
@@ -308,31 +308,13 @@ func (d *DiffusiveFlux) fixEssential() error {
 			}
 		case VelocitySlip:
 			// v.n = 0; the tangential traction vanishes (natural).
-			c, err := slipComponent(m, t)
-			if err != nil {
+			if err := d.fixComponent(t, false, given); err != nil {
 				return err
-			}
-			dofs, err := d.V.BoundaryDofs(t)
-			if err != nil {
-				return err
-			}
-			for _, g := range dofs {
-				if !given[g] {
-					d.sys.Fix(d.lay.Offset(blockVX+c)+g, 0)
-				}
 			}
 		case VelocityTraction:
 			if bc.Velocity.NoTangential {
-				c, err := slipComponent(m, t)
-				if err != nil {
+				if err := d.fixComponent(t, true, nil); err != nil {
 					return err
-				}
-				dofs, err := d.V.BoundaryDofs(t)
-				if err != nil {
-					return err
-				}
-				for _, g := range dofs {
-					d.sys.Fix(d.lay.Offset(blockVX+1-c)+g, 0)
 				}
 			}
 			allVelocityEssential = false
@@ -745,6 +727,29 @@ func (d *DiffusiveFlux) stefanOf(t int) *dfStefan {
 	for i := range d.stefan {
 		if d.stefan[i].tag == t {
 			return &d.stefan[i]
+		}
+	}
+	return nil
+}
+
+// fixComponent sets to zero, on the straight axis-parallel boundary with
+// tag t, the velocity component normal to it (or tangential to it, when
+// tangential is set), leaving out the unknowns in skip.
+func (d *DiffusiveFlux) fixComponent(t int, tangential bool, skip map[int]bool) error {
+	c, err := slipComponent(d.m, t)
+	if err != nil {
+		return err
+	}
+	if tangential {
+		c = 1 - c
+	}
+	dofs, err := d.V.BoundaryDofs(t)
+	if err != nil {
+		return err
+	}
+	for _, g := range dofs {
+		if !skip[g] {
+			d.sys.Fix(d.lay.Offset(blockVX+c)+g, 0)
 		}
 	}
 	return nil
