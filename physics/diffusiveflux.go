@@ -336,12 +336,24 @@ func (d *DiffusiveFlux) fixEssential() error {
 			if err != nil {
 				return err
 			}
+			// The tangential velocity is 0, or the tangential component
+			// of bc.Velocity.Velocity when given (manufactured solutions).
+			tangent := map[int]float64{}
+			if vel := bc.Velocity.Velocity; vel != nil {
+				tdofs, vals, err := fem.BoundaryValues(d.V, []int{t}, func(x [2]float64) float64 { return vel(x)[1-c] })
+				if err != nil {
+					return err
+				}
+				for a, g := range tdofs {
+					tangent[g] = vals[a]
+				}
+			}
 			sw := dfStefan{tag: t, comp: c, normal: nrm, dofs: map[int]bool{}, wall: wall}
 			for _, g := range dofs {
 				if given[g] {
 					continue
 				}
-				d.sys.Fix(d.lay.Offset(blockVX+1-c)+g, 0)
+				d.sys.Fix(d.lay.Offset(blockVX+1-c)+g, tangent[g])
 				if len(wall) > 0 {
 					d.sys.Replace(d.lay.Offset(blockVX+c) + g)
 				} else {

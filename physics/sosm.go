@@ -128,7 +128,10 @@ func (k SpeciesKind) String() string {
 type VelocityCondition struct {
 	Kind VelocityKind
 	// Velocity is the prescribed velocity for VelocityGiven; nil means
-	// zero (a no-slip wall).
+	// zero (a no-slip wall). For VelocityStefan the diffusive-flux
+	// formulation takes its tangential component as the wall's tangential
+	// velocity (nil: zero), which manufactured solutions need; the
+	// total-flux formulation ignores it there.
 	Velocity func(x [2]float64) [2]float64
 	// Traction is the prescribed traction (tau(v) - p I) n for
 	// VelocityTraction, given the outward unit normal n; nil means zero.

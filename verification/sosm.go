@@ -78,6 +78,9 @@ func runSOSM(cfg Config, progress func(level, unknowns int)) (*Study, error) {
 		return nil, fmt.Errorf("verification: unknown sosm formulation %q (valid: %s, %s)", formulation, formulationTotal, formulationDiffusive)
 	}
 	diffusive := formulation == formulationDiffusive
+	if cfg.StefanWall && !diffusive {
+		return nil, fmt.Errorf("verification: the Stefan wall variant is built for the %s formulation only", formulationDiffusive)
+	}
 	if diffusive && flavour != "frozen" {
 		return nil, fmt.Errorf("verification: the %s formulation is built for the frozen flavour only, not %q", formulationDiffusive, flavour)
 	}
@@ -143,7 +146,7 @@ func runSOSM(cfg Config, progress func(level, unknowns int)) (*Study, error) {
 	}
 	st := &Study{
 		Problem: "sosm", Variant: cfg.Variant, Degree: k, Mesh: kind,
-		Flavour: flavour, Species: n, S: S, Beta: beta, Formulation: formulation,
+		Flavour: flavour, Species: n, S: S, Beta: beta, Formulation: formulation, StefanWall: cfg.StefanWall,
 		Errors:   map[string][]float64{},
 		Expected: map[string]float64{},
 	}
@@ -177,6 +180,9 @@ func runSOSM(cfg Config, progress func(level, unknowns int)) (*Study, error) {
 			m = mesh.BarycentricSplit(macro)
 		}
 		prob := sosmProblem(m, mix, ex, k, family, S)
+		if cfg.StefanWall {
+			prob.Boundary[1] = sosmStefanWall(ex, n)
+		}
 		prob.Pressure = pair
 		prob.SpeciesAugmentation = beta
 		if diffusive {
@@ -352,6 +358,33 @@ func sosmProblem(m *mesh.Mesh, mix *physics.Mixture, ex *sosmExact, k int, famil
 			Production: func(dst []float64, x [2]float64) { copy(dst, srcProd(x).R) },
 			Residual:   func(dst [][2]float64, x [2]float64) { copy(dst, srcRes(x).G) },
 		},
+	}
+}
+
+// sosmStefanWall is the bottom side of the manufactured problem posed as a
+// Stefan wall with composition data: the exact potentials of every species,
+// the last one impermeable with the exact exchange J_n.n as its flux data,
+// and the exact tangential velocity. The normal velocity is then an unknown
+// tied to the last species' diffusive flux (physics.DiffusiveFlux).
+func sosmStefanWall(ex *sosmExact, n int) physics.BoundaryCondition {
+	field := func() func(x [2]float64) *sosmPoint {
+		pt := ex.newPoint()
+		return func(x [2]float64) *sosmPoint { ex.at(pt, x); return pt }
+	}
+	vel := field()
+	sp := make([]physics.SpeciesCondition, n)
+	for i := range sp {
+		at, s := field(), i
+		sp[i] = physics.SpeciesCondition{Kind: physics.SpeciesPotential, Potential: func(x [2]float64) float64 { return at(x).Mu[s] }}
+	}
+	at, pot := field(), sp[n-1].Potential
+	sp[n-1] = physics.SpeciesCondition{Kind: physics.SpeciesFlux, Potential: pot, Flux: func(x, nrm [2]float64) float64 {
+		j := at(x).J[n-1]
+		return j[0]*nrm[0] + j[1]*nrm[1]
+	}}
+	return physics.BoundaryCondition{
+		Velocity: physics.VelocityCondition{Kind: physics.VelocityStefan, Velocity: func(x [2]float64) [2]float64 { return vel(x).V }},
+		Species:  sp,
 	}
 }
 

@@ -54,6 +54,11 @@ type Config struct {
 	// j_i = J_i - w_i rho v of n-1 species, remedy (c); frozen flavour
 	// only).
 	Formulation string
+	// StefanWall, for sosm with the diffusive-flux formulation, poses the
+	// bottom side as a Stefan wall with composition data and the last
+	// species impermeable (its exchange and tangential velocity taken from
+	// the exact solution): a check of the wall's constraint rows.
+	StefanWall bool
 }
 
 // Study is the result of a convergence study. Errors and rates are keyed by
@@ -88,6 +93,9 @@ type Study struct {
 	// Formulation names the flux unknowns ("total-flux" or
 	// "diffusive-flux").
 	Formulation string `json:"formulation,omitempty"`
+	// StefanWall reports that the bottom side was a Stefan wall with
+	// composition data (Config.StefanWall).
+	StefanWall bool `json:"stefan_wall,omitempty"`
 	// Method names the nonlinear iteration ("" for a frozen study).
 	Method string `json:"method,omitempty"`
 	// Iterations holds the number of nonlinear iterations per level (1

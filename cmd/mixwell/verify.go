@@ -58,6 +58,9 @@ type verifyOptions struct {
 	flavour string
 	// formulation selects the flux unknowns of --problem sosm.
 	formulation string
+	// stefanWall poses the sosm problem's bottom side as a Stefan wall
+	// with composition data (diffusive-flux only).
+	stefanWall bool
 	method      string
 	maxIter     int
 	groupS      float64
@@ -106,7 +109,10 @@ level) and mass_average (||v - sum J/rho|| relative to the largest of ||v|| and 
 With --formulation diffusive-flux the unknowns are the diffusive fluxes of
 all species but the last, relative to the mass-average velocity, so
 mass_average is zero by construction and is left out; conservation then
-covers those species, and conservation_last_species the last one. When stderr
+covers those species, and conservation_last_species the last one.
+--stefan-wall (diffusive-flux only) poses the bottom side as a Stefan wall
+with composition data and the last species impermeable, data from the
+exact solution, and reports stefan_wall. When stderr
 is a terminal, a progress line per solved level is printed there unless
 --quiet: a bar of the work done (counted in unknowns), the level and its
 size and time.`,
@@ -152,6 +158,7 @@ size and time.`,
 	f.Uint64Var(&o.seed, "seed", 1, "seed `S` of the random perturbation (only with --mesh perturbed)")
 	f.IntVar(&o.species, "species", 3, "number `N` of species of --problem sosm (2 to 6)")
 	f.StringVar(&o.flavour, "flavour", "nonlinear", "manufactured `LAYER` of --problem sosm: nonlinear, frozen or consistent")
+	f.BoolVar(&o.stefanWall, "stefan-wall", false, "with --formulation diffusive-flux: pose the bottom side as a Stefan wall with composition data, the last species impermeable")
 	f.StringVar(&o.formulation, "formulation", "total-flux", "flux `UNKNOWNS` of --problem sosm: total-flux (species mass fluxes) or diffusive-flux (fluxes relative to the mass-average velocity; frozen layer only)")
 	f.StringVar(&o.method, "method", "anderson", "nonlinear `METHOD` of --problem sosm: anderson, picard or newton-krylov")
 	f.IntVar(&o.maxIter, "max-iterations", 60, "most nonlinear iterations `M` per level (--problem sosm)")
@@ -255,7 +262,7 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 	if flags.Changed("thermodynamics") {
 		return cfg, fmt.Errorf("--thermodynamics applies only to --problem channel, not to %s", o.problem)
 	}
-	for _, name := range []string{"species", "flavour", "formulation", "method", "max-iterations", "group-s", "regime", "beta"} {
+	for _, name := range []string{"species", "flavour", "formulation", "stefan-wall", "method", "max-iterations", "group-s", "regime", "beta"} {
 		if flags.Changed(name) && o.problem != "sosm" {
 			return cfg, fmt.Errorf("--%s applies only to --problem sosm, not to %s", name, o.problem)
 		}
@@ -272,6 +279,9 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 		}
 		if o.formulation == "diffusive-flux" && o.flavour != "frozen" {
 			return cfg, fmt.Errorf("--formulation diffusive-flux is built for --flavour frozen only, not %s", o.flavour)
+		}
+		if o.stefanWall && o.formulation != "diffusive-flux" {
+			return cfg, errors.New("--stefan-wall applies only to --formulation diffusive-flux")
 		}
 		if o.formulation == "diffusive-flux" && flags.Changed("beta") {
 			return cfg, errors.New("--beta does not apply to --formulation diffusive-flux, which needs no augmentation")
@@ -298,6 +308,7 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 		cfg.Species, cfg.Flavour, cfg.Method = o.species, o.flavour, o.method
 		cfg.MaxIterations, cfg.S, cfg.Beta = o.maxIter, o.groupS, o.beta
 		cfg.Formulation = o.formulation
+		cfg.StefanWall = o.stefanWall
 	}
 
 	return verification.Config{
@@ -308,6 +319,7 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 		S:             cfg.S,
 		Beta:          cfg.Beta,
 		Formulation:   cfg.Formulation,
+		StefanWall:    cfg.StefanWall,
 		Problem:       o.problem,
 		Variant:       variant,
 		Degree:        o.degree,

@@ -22,7 +22,7 @@ var channelClosures = []string{"ideal-gas", "ideal-gas-at-pressure"}
 func (o *verifyOptions) channelConfig(cmd *cobra.Command) (verification.Config, error) {
 	var cfg verification.Config
 	flags := cmd.Flags()
-	for _, name := range []string{"flux", "pair", "mesh", "seed", "species", "flavour", "group-s", "regime", "plot"} {
+	for _, name := range []string{"flux", "pair", "mesh", "seed", "species", "flavour", "formulation", "stefan-wall", "group-s", "regime", "plot"} {
 		if flags.Changed(name) {
 			return cfg, fmt.Errorf("--%s does not apply to --problem channel", name)
 		}

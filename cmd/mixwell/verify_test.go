@@ -146,6 +146,8 @@ func TestVerifyRejectsMisuse(t *testing.T) {
 			[]string{"--seed applies only to --mesh perturbed"}},
 		{"plot as pdf", []string{"--problem", "poisson", "--degree", "1", "--plot", "conv.pdf"},
 			[]string{"conv.pdf", ".png or .svg"}},
+		{"stefan wall with poisson", []string{"--problem", "poisson", "--degree", "1", "--stefan-wall"},
+			[]string{"--stefan-wall applies only to --problem sosm"}},
 		{"flux with channel", []string{"--problem", "channel", "--degree", "1", "--flux", "rt"},
 			[]string{"--flux does not apply to --problem channel"}},
 		{"channel without degree", []string{"--problem", "channel"},
@@ -527,5 +529,22 @@ func TestVerifySOSMPair(t *testing.T) {
 		if line := errorLine(t, stderr); !strings.Contains(line, tc.want) {
 			t.Errorf("%v: error line %q does not contain %q", tc.args, line, tc.want)
 		}
+	}
+}
+
+func TestVerifySOSMStefanWall(t *testing.T) {
+	// --stefan-wall reaches the study's configuration with the
+	// diffusive-flux formulation and is refused with the total-flux one.
+	f := &fakeLib{}
+	args := []string{"verify", "--problem", "sosm", "--flavour", "frozen", "--formulation", "diffusive-flux", "--stefan-wall", "--degree", "1", "--quiet"}
+	if _, stderr, err := execute(t, sosmDeps(f), args...); err != nil {
+		t.Fatalf("%v\n%s", err, stderr)
+	}
+	if len(f.ran) != 1 || !f.ran[0].StefanWall || f.ran[0].Formulation != "diffusive-flux" {
+		t.Errorf("ran %+v, want one diffusive-flux study with the Stefan wall", f.ran)
+	}
+	_, stderr, err := execute(t, sosmDeps(&fakeLib{}), "verify", "--problem", "sosm", "--flavour", "frozen", "--degree", "1", "--stefan-wall")
+	if err == nil || !strings.Contains(stderr, "--stefan-wall applies only to --formulation diffusive-flux") {
+		t.Errorf("total-flux with --stefan-wall: error %v, stderr %q", err, stderr)
 	}
 }
