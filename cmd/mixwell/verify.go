@@ -61,11 +61,11 @@ type verifyOptions struct {
 	// stefanWall poses the sosm problem's bottom side as a Stefan wall
 	// with composition data (diffusive-flux only).
 	stefanWall bool
-	method      string
-	maxIter     int
-	groupS      float64
-	regime      string
-	beta        float64
+	method     string
+	maxIter    int
+	groupS     float64
+	regime     string
+	beta       float64
 
 	thermodynamics string
 }
