@@ -57,6 +57,7 @@ type studyJSON struct {
 	S            jsonFloat   `json:"S,omitempty"`
 	Beta         jsonFloat   `json:"beta,omitempty"`
 	Formulation  string      `json:"formulation,omitempty"`
+	StefanWall   bool        `json:"stefan_wall,omitempty"`
 	Method       string      `json:"method,omitempty"`
 	Iterations   []int       `json:"iterations,omitempty"`
 	Conservation []jsonFloat `json:"conservation,omitempty"`
@@ -95,6 +96,7 @@ func newStudyJSON(s *Study) studyJSON {
 		S:                jsonFloat(s.S),
 		Beta:             jsonFloat(s.Beta),
 		Formulation:      s.Formulation,
+		StefanWall:       s.StefanWall,
 		Method:           s.Method,
 		Iterations:       s.Iterations,
 		Conservation:     jsonFloats(s.Conservation),
