@@ -34,6 +34,21 @@ func NewScalarQuad(e ScalarElement, degree int) *ScalarQuad {
 // RefPoints returns the reference quadrature points.
 func (s *ScalarQuad) RefPoints() [][2]float64 { return s.tab.Points }
 
+// FieldAt returns the value and gradient at point q of the current
+// triangle of the field with global coefficients coeffs, the triangle's
+// degrees of freedom being dofs (Space.Dofs).
+func (s *ScalarQuad) FieldAt(q int, coeffs []float64, dofs []int) (v float64, g [2]float64) {
+	n := s.N
+	val, grad := s.Val[q*n:(q+1)*n], s.Grad[q*n:(q+1)*n]
+	for a, d := range dofs {
+		c := coeffs[d]
+		v += c * val[a]
+		g[0] += c * grad[a][0]
+		g[1] += c * grad[a][1]
+	}
+	return v, g
+}
+
 // Reinit maps the tabulated data onto the triangle with affine map a.
 func (s *ScalarQuad) Reinit(a *Affine) {
 	ad := a.AbsDet()

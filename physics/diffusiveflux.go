@@ -853,17 +853,14 @@ func (d *DiffusiveFlux) pinWallLevel(f diffusiveField) {
 		return
 	}
 	p := d.levelSpecies[0]
-	nV, nv := d.V.Len(), d.V.LocalLen()
+	nV := d.V.Len()
 	m := st.x[p*nV : (p+1)*nV]
 	af := fem.ElementMap(d.m, 0)
 	d.vq.Reinit(&af)
 	vd := d.V.Dofs(0)
 	var integral, area float64
 	for q := 0; q < d.vq.NQ; q++ {
-		var v float64
-		for a := 0; a < nv; a++ {
-			v += d.vq.Val[q*nv+a] * m[vd[a]]
-		}
+		v, _ := d.vq.FieldAt(q, m, vd)
 		integral += d.vq.W[q] * v
 		area += d.vq.W[q]
 	}

@@ -147,29 +147,12 @@ func (st *diffusiveState) concentrations(m []float64, gm [][2]float64, p float64
 
 func (st *diffusiveState) atQuad(t, q int, x [2]float64, c []float64, gc [][2]float64) error {
 	d := st.d
-	nV, nv, np := d.V.Len(), d.vq.N, d.pq.N
-	vd, pd := d.V.Dofs(t), d.P.Dofs(t)
+	nV := d.V.Len()
+	vd := d.V.Dofs(t)
 	for i := 0; i < d.r; i++ {
-		blk := st.x[i*nV : (i+1)*nV]
-		var v float64
-		var g [2]float64
-		for a := 0; a < nv; a++ {
-			co := blk[vd[a]]
-			v += co * d.vq.Val[q*nv+a]
-			g[0] += co * d.vq.Grad[q*nv+a][0]
-			g[1] += co * d.vq.Grad[q*nv+a][1]
-		}
-		st.mq[i], st.gm[i] = v, g
+		st.mq[i], st.gm[i] = d.vq.FieldAt(q, st.x[i*nV:(i+1)*nV], vd)
 	}
-	pc := st.pressureBlock()
-	var p float64
-	var gp [2]float64
-	for a := 0; a < np; a++ {
-		co := pc[pd[a]]
-		p += co * d.pq.Val[q*np+a]
-		gp[0] += co * d.pq.Grad[q*np+a][0]
-		gp[1] += co * d.pq.Grad[q*np+a][1]
-	}
+	p, gp := d.pq.FieldAt(q, st.pressureBlock(), d.P.Dofs(t))
 	return st.concentrations(st.mq, st.gm, p, gp, c, gc)
 }
 
