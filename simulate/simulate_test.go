@@ -22,10 +22,14 @@ func TestBinaryEvaporationClosedForm(t *testing.T) {
 	}
 }
 
-func binaryEvaporation(t *testing.T, surface string) {
+// binaryEvaporation solves the binary evaporation case with its surface
+// posed as surface (open or stefan-wall) and the further edits, and checks
+// the closed form.
+func binaryEvaporation(t *testing.T, surface string, edits ...[2]string) {
 	const tol = 1e-3
 	const path = "../testdata/cases/binary-evaporation.yaml"
-	data := editedCase(t, path, [2]string{"  surface:\n    velocity: open\n", "  surface:\n    velocity: " + surface + "\n"})
+	edits = append([][2]string{{"  surface:\n    velocity: open\n", "  surface:\n    velocity: " + surface + "\n"}}, edits...)
+	data := editedCase(t, path, edits...)
 	_, o := solved(t, path, data)
 	const (
 		P, T, D, L, W = 100e3, 300.0, 1e-5, 0.1, 2e-3
