@@ -19,7 +19,7 @@ func TestMeshReportsAndExports(t *testing.T) {
 	if err != nil {
 		t.Fatalf("%v\n%s", err, stderr)
 	}
-	for _, want := range []string{"12 vertices, 12 triangles", "(10 on the boundary)", "area 0.0002 m^2", "bottom 2, left 3, right 3, top 2", "wrote " + out, "wrote " + vtu} {
+	for _, want := range []string{"28 vertices, 36 triangles", "(18 on the boundary)", "area 0.0002 m^2", "bottom 3, left 6, right 6, top 3", "wrote " + out, "wrote " + vtu} {
 		if !strings.Contains(stdout, want) {
 			t.Errorf("output lacks %q:\n%s", want, stdout)
 		}
@@ -28,13 +28,13 @@ func TestMeshReportsAndExports(t *testing.T) {
 	if err != nil {
 		t.Fatalf("reading the exported mesh: %v", err)
 	}
-	if m.NumTriangles() != 12 || len(m.TagNames) != 4 {
-		t.Errorf("exported mesh has %d triangles and %d named tags, want 12 and 4", m.NumTriangles(), len(m.TagNames))
+	if m.NumTriangles() != 36 || len(m.TagNames) != 4 {
+		t.Errorf("exported mesh has %d triangles and %d named tags, want 36 and 4", m.NumTriangles(), len(m.TagNames))
 	}
 }
 
 func TestMeshRejectsBadCase(t *testing.T) {
-	path := writeCase(t, strings.Replace(tinyCase, "nx: 2", "nx: 0", 1))
+	path := writeCase(t, strings.Replace(tinyCase, "nx: 3", "nx: 0", 1))
 	_, stderr, err := execute(t, (&fakeLib{}).deps(), "mesh", path)
 	if err == nil {
 		t.Fatal("accepted a rectangle with no cells")
