@@ -74,6 +74,9 @@ type ChannelConfig struct {
 	// (0: the case default, physics.FlowThroughSpeciesAugmentation here;
 	// negative: none, remedy (a) of docs/augmentation.md).
 	SpeciesAugmentation float64
+	// Formulation is the case's discretisation.formulation (empty: the
+	// case default, total-flux).
+	Formulation string
 }
 
 // ChannelStudy is the result of a channel benchmark.
@@ -82,6 +85,9 @@ type ChannelStudy struct {
 	Degree  int    `json:"degree"`
 	// Thermodynamics is the closure used.
 	Thermodynamics string `json:"thermodynamics"`
+	// Formulation is the flux unknowns: total-flux (remedy (b) of
+	// docs/augmentation.md, with Beta) or diffusive-flux (remedy (c)).
+	Formulation string `json:"formulation"`
 	// Beta is the one-sided species augmentation used (0: none).
 	Beta   float64 `json:"beta"`
 	Peclet float64 `json:"peclet"`
@@ -122,6 +128,9 @@ type ChannelStudy struct {
 	// sum of the OSM rows (the Gibbs–Duhem relation) and accumulates along
 	// the flow (docs/outflow.md).
 	EOSDefect []float64 `json:"eos_defect"`
+	// Warnings are the solution warnings of each level, prefixed with its
+	// rows (simulate.Outcome.Warnings).
+	Warnings []string `json:"warnings,omitempty"`
 	// Seconds is the wall time per level (without the truncation run).
 	Seconds []float64 `json:"seconds"`
 }
@@ -238,6 +247,9 @@ solver:
 	case b > 0:
 		text += fmt.Sprintf("  species_augmentation: %g\n", b)
 	}
+	if cfg.Formulation != "" {
+		text = strings.Replace(text, fmt.Sprintf("discretisation: {degree: %d}", cfg.Degree), fmt.Sprintf("discretisation: {degree: %d, formulation: %s}", cfg.Degree, cfg.Formulation), 1)
+	}
 	fsys := fstest.MapFS{"channel.mesh": {Data: buf.Bytes()}}
 	return casefile.ParseFS("channel.yaml", []byte(text), fsys)
 }
@@ -308,11 +320,27 @@ func RunChannel(cfg ChannelConfig) (*ChannelStudy, error) {
 	if cfg.Levels < 2 {
 		return nil, fmt.Errorf("verification: channel needs at least 2 levels, got %d", cfg.Levels)
 	}
+	switch cfg.Formulation {
+	case "", string(casefile.TotalFlux):
+	case string(casefile.DiffusiveFlux):
+		if cfg.SpeciesAugmentation != 0 {
+			return nil, fmt.Errorf("verification: channel: the diffusive-flux formulation needs no species augmentation, but beta %g is given", cfg.SpeciesAugmentation)
+		}
+	default:
+		return nil, fmt.Errorf("verification: channel: unknown formulation %q (valid: %s, %s)", cfg.Formulation, casefile.TotalFlux, casefile.DiffusiveFlux)
+	}
+	if cfg.MeanSpeed < 0 || math.IsNaN(cfg.MeanSpeed) || math.IsInf(cfg.MeanSpeed, 0) {
+		return nil, fmt.Errorf("verification: channel: mean speed %g m/s is not positive and finite", cfg.MeanSpeed)
+	}
 	coarse := cfg.Coarse
 	if coarse == 0 {
 		coarse = 4
 	}
-	st := &ChannelStudy{Problem: "channel", Degree: cfg.Degree, Peclet: channelSpeed * channelHeight / channelDmin, Thermodynamics: cfg.Thermodynamics}
+	st := &ChannelStudy{Problem: "channel", Degree: cfg.Degree, Peclet: channelSpeed * channelHeight / channelDmin, Thermodynamics: cfg.Thermodynamics,
+		Formulation: cfg.Formulation}
+	if st.Formulation == "" {
+		st.Formulation = string(casefile.TotalFlux)
+	}
 	if st.Thermodynamics == "" {
 		st.Thermodynamics = "ideal-gas"
 	}
@@ -346,6 +374,9 @@ func RunChannel(cfg ChannelConfig) (*ChannelStudy, error) {
 		}
 		st.OutletA = append(st.OutletA, out[0].Molar/tot)
 		st.EOSDefect = append(st.EOSDefect, equationOfStateDefect(o, channelLength*channelHeight, channelHeight))
+		for _, w := range o.Warnings {
+			st.Warnings = append(st.Warnings, fmt.Sprintf("%d rows: %s", rows, w))
+		}
 		st.Seconds = append(st.Seconds, time.Since(start).Seconds())
 		finest = o
 	}

@@ -68,6 +68,8 @@ type verifyOptions struct {
 	beta       float64
 
 	thermodynamics string
+	// meanSpeed is the mean inflow speed of --problem channel (m/s).
+	meanSpeed float64
 }
 
 func newVerifyCmd(d deps) *cobra.Command {
@@ -159,13 +161,14 @@ size and time.`,
 	f.IntVar(&o.species, "species", 3, "number `N` of species of --problem sosm (2 to 6)")
 	f.StringVar(&o.flavour, "flavour", "nonlinear", "manufactured `LAYER` of --problem sosm: nonlinear, frozen or consistent")
 	f.BoolVar(&o.stefanWall, "stefan-wall", false, "with --formulation diffusive-flux: pose the bottom side as a Stefan wall with composition data, the last species impermeable")
-	f.StringVar(&o.formulation, "formulation", "total-flux", "flux `UNKNOWNS` of --problem sosm: total-flux (species mass fluxes) or diffusive-flux (fluxes relative to the mass-average velocity; frozen layer only)")
+	f.StringVar(&o.formulation, "formulation", "total-flux", "flux `UNKNOWNS` of --problem sosm or channel: total-flux (species mass fluxes) or diffusive-flux (fluxes relative to the mass-average velocity; sosm: frozen layer only)")
 	f.StringVar(&o.method, "method", "anderson", "nonlinear `METHOD` of --problem sosm: anderson, picard or newton-krylov")
 	f.IntVar(&o.maxIter, "max-iterations", 60, "most nonlinear iterations `M` per level (--problem sosm)")
 	f.Float64Var(&o.groupS, "group-s", 0, "dimensionless group `S` of --problem sosm (0: 1 for frozen, 1e-7 otherwise)")
 	f.StringVar(&o.regime, "regime", "", "`REGIME` of --problem sosm: unit (S = 1) or physical (S = 1e-7); the default depends on --flavour")
 	f.Float64Var(&o.beta, "beta", 0, "one-sided species augmentation `BETA` of --problem sosm or channel (0: the default; negative: none)")
 	f.StringVar(&o.thermodynamics, "thermodynamics", "ideal-gas", "`CLOSURE` of --problem channel: ideal-gas or ideal-gas-at-pressure")
+	f.Float64Var(&o.meanSpeed, "mean-speed", 1, "mean inflow `SPEED` of --problem channel in m/s (Peclet number 6.25 per m/s)")
 	f.StringVar(&o.format, "format", "table", "output `FORMAT`: table or json")
 	f.StringVar(&o.plot, "plot", "", "also draw error against h on log–log axes into `FILE` (.png or .svg)")
 	f.BoolVarP(&o.quiet, "quiet", "q", false, "print no progress lines")
@@ -259,12 +262,18 @@ func (o *verifyOptions) config(cmd *cobra.Command, infos []verification.ProblemI
 		}
 	}
 
-	if flags.Changed("thermodynamics") {
-		return cfg, fmt.Errorf("--thermodynamics applies only to --problem channel, not to %s", o.problem)
+	for _, name := range []string{"thermodynamics", "mean-speed"} {
+		if flags.Changed(name) {
+			return cfg, fmt.Errorf("--%s applies only to --problem channel, not to %s", name, o.problem)
+		}
 	}
 	for _, name := range []string{"species", "flavour", "formulation", "stefan-wall", "method", "max-iterations", "group-s", "regime", "beta"} {
 		if flags.Changed(name) && o.problem != "sosm" {
-			return cfg, fmt.Errorf("--%s applies only to --problem sosm, not to %s", name, o.problem)
+			which := "sosm"
+			if slices.Contains([]string{"formulation", "method", "max-iterations", "beta"}, name) {
+				which = "sosm or channel"
+			}
+			return cfg, fmt.Errorf("--%s applies only to --problem %s, not to %s", name, which, o.problem)
 		}
 	}
 	if o.problem == "sosm" {

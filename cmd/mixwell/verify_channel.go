@@ -2,7 +2,9 @@ package main
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
+	"math"
 	"text/tabwriter"
 	"time"
 
@@ -22,7 +24,7 @@ var channelClosures = []string{"ideal-gas", "ideal-gas-at-pressure"}
 func (o *verifyOptions) channelConfig(cmd *cobra.Command) (verification.Config, error) {
 	var cfg verification.Config
 	flags := cmd.Flags()
-	for _, name := range []string{"flux", "pair", "mesh", "seed", "species", "flavour", "formulation", "stefan-wall", "group-s", "regime", "plot"} {
+	for _, name := range []string{"flux", "pair", "mesh", "seed", "species", "flavour", "stefan-wall", "group-s", "regime", "plot"} {
 		if flags.Changed(name) {
 			return cfg, fmt.Errorf("--%s does not apply to --problem channel", name)
 		}
@@ -45,12 +47,28 @@ func (o *verifyOptions) channelConfig(cmd *cobra.Command) (verification.Config, 
 	if err := checkChoice("thermodynamics", o.thermodynamics, channelClosures); err != nil {
 		return cfg, err
 	}
+	if err := checkChoice("formulation", o.formulation, formulationChoices); err != nil {
+		return cfg, err
+	}
+	if o.formulation == "diffusive-flux" {
+		switch {
+		case flags.Changed("beta"):
+			return cfg, errors.New("--beta does not apply to --formulation diffusive-flux, which needs no augmentation")
+		case o.thermodynamics != "ideal-gas":
+			return cfg, fmt.Errorf("--formulation diffusive-flux is built for --thermodynamics ideal-gas only, not %s", o.thermodynamics)
+		case o.method != "anderson":
+			return cfg, fmt.Errorf("--formulation diffusive-flux iterates with --method anderson only, not %s", o.method)
+		}
+	}
+	if !(o.meanSpeed > 0) || math.IsInf(o.meanSpeed, 0) {
+		return cfg, fmt.Errorf("--mean-speed must be positive and finite (m/s), got %g", o.meanSpeed)
+	}
 	maxIt := o.maxIter
 	if !flags.Changed("max-iterations") {
 		maxIt = 0 // the benchmark's own default
 	}
 	return verification.Config{Problem: channelProblem, Degree: o.degree, Levels: o.levels, Coarse: o.coarse,
-		Method: o.method, MaxIterations: maxIt, Beta: o.beta}, nil
+		Method: o.method, MaxIterations: maxIt, Beta: o.beta, Formulation: o.formulation}, nil
 }
 
 // runChannel runs the channel benchmark and prints its result.
@@ -58,7 +76,7 @@ func runChannel(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.C
 	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
 	cc := verification.ChannelConfig{Degree: cfg.Degree, Levels: cfg.Levels, Coarse: cfg.Coarse,
 		Method: cfg.Method, MaxIterations: cfg.MaxIterations, Thermodynamics: o.thermodynamics,
-		SpeciesAugmentation: cfg.Beta}
+		SpeciesAugmentation: cfg.Beta, Formulation: cfg.Formulation, MeanSpeed: o.meanSpeed}
 	if !o.quiet && d.isTerminal(stderr) {
 		start := time.Now()
 		cc.Progress = func(what string, unknowns int) {
@@ -91,7 +109,7 @@ func runChannel(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.C
 
 // writeChannelTable prints a channel study as a table.
 func writeChannelTable(w interface{ Write([]byte) (int, error) }, st *verification.ChannelStudy) {
-	fmt.Fprintf(w, "channel benchmark, degree %d, %s, beta %g, Peclet number %.3g, S = %.3g\n", st.Degree, st.Thermodynamics, st.Beta, st.Peclet, st.S)
+	fmt.Fprintf(w, "channel benchmark, degree %d, %s, %s, beta %g, Peclet number %.3g, S = %.3g\n", st.Degree, st.Formulation, st.Thermodynamics, st.Beta, st.Peclet, st.S)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "rows\tunknowns\titerations\tconverged\tpatch flux A (mol/(s m))\toutlet x_A\tmass average\tEOS defect\tseconds\t")
 	for l := range st.Rows {
@@ -101,4 +119,7 @@ func writeChannelTable(w interface{ Write([]byte) (int, error) }, st *verificati
 	tw.Flush()
 	fmt.Fprintf(w, "balance %.3e, mass_average %.3e, truncation %.3e, patch flux change %.3e\n",
 		st.Balance, st.MassAverage, st.Truncation, st.PatchFluxChange)
+	for _, warn := range st.Warnings {
+		fmt.Fprintf(w, "warning: %s\n", warn)
+	}
 }

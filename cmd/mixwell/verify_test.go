@@ -448,6 +448,48 @@ func TestChannelConfigTakesBeta(t *testing.T) {
 	}
 }
 
+func TestChannelConfigTakesFormulationAndSpeed(t *testing.T) {
+	// --formulation and --mean-speed reach the channel benchmark
+	// (docs/augmentation.md compares the formulations over the Peclet
+	// number), and their misuse is named; the study is not run here.
+	cmd, o := newVerifyCmdOptions((&fakeLib{}).deps())
+	args := []string{"--problem", "channel", "--degree", "1", "--formulation", "diffusive-flux", "--mean-speed", "0.05"}
+	if err := cmd.ParseFlags(args); err != nil {
+		t.Fatal(err)
+	}
+	cfg, err := o.channelConfig(cmd)
+	if err != nil {
+		t.Fatalf("%v: %v", args, err)
+	}
+	if cfg.Formulation != "diffusive-flux" || o.meanSpeed != 0.05 {
+		t.Errorf("%v: formulation %q, mean speed %g", args, cfg.Formulation, o.meanSpeed)
+	}
+	for _, tc := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--formulation", "mixed"}, `"mixed"`},
+		{[]string{"--formulation", "diffusive-flux", "--beta", "0.3"}, "--beta does not apply to --formulation diffusive-flux"},
+		{[]string{"--formulation", "diffusive-flux", "--thermodynamics", "ideal-gas-at-pressure"}, "--thermodynamics ideal-gas only"},
+		{[]string{"--formulation", "diffusive-flux", "--method", "picard"}, "--method anderson only"},
+		{[]string{"--mean-speed", "0"}, "--mean-speed must be positive"},
+		{[]string{"--mean-speed", "-1"}, "--mean-speed must be positive"},
+	} {
+		cmd, o := newVerifyCmdOptions((&fakeLib{}).deps())
+		args := append([]string{"--problem", "channel", "--degree", "1"}, tc.args...)
+		if err := cmd.ParseFlags(args); err != nil {
+			t.Fatal(err)
+		}
+		if _, err := o.channelConfig(cmd); err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%v: error %v, want one containing %q", args, err, tc.want)
+		}
+	}
+	_, stderr, err := execute(t, sosmDeps(&fakeLib{}), "verify", "--problem", "stokes", "--degree", "1", "--mean-speed", "2")
+	if err == nil || !strings.Contains(stderr, "--mean-speed applies only to --problem channel") {
+		t.Errorf("--mean-speed with stokes: error %v, stderr %q", err, stderr)
+	}
+}
+
 func TestVerifySOSMFormulation(t *testing.T) {
 	// --formulation reaches the sosm study, and its misuse is named.
 	f := &fakeLib{}
@@ -466,7 +508,7 @@ func TestVerifySOSMFormulation(t *testing.T) {
 		{"unknown", []string{"--problem", "sosm", "--degree", "1", "--flavour", "frozen", "--formulation", "mixed"}, `"mixed"`},
 		{"nonlinear flavour", []string{"--problem", "sosm", "--degree", "1", "--formulation", "diffusive-flux"}, "--flavour frozen only, not nonlinear"},
 		{"with beta", []string{"--problem", "sosm", "--degree", "1", "--flavour", "frozen", "--formulation", "diffusive-flux", "--beta", "0.3"}, "--beta does not apply"},
-		{"other problem", []string{"--problem", "stokes", "--degree", "1", "--formulation", "diffusive-flux"}, "--formulation applies only to --problem sosm"},
+		{"other problem", []string{"--problem", "stokes", "--degree", "1", "--formulation", "diffusive-flux"}, "--formulation applies only to --problem sosm or channel"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, stderr, err := execute(t, d, append([]string{"verify"}, tc.args...)...)
