@@ -246,11 +246,12 @@ func (o *Outcome) Locate(x [2]float64) (t int, xh [2]float64, ok bool) {
 
 // MassAverageLimit is the mass-average defect ||v - sum J/rho|| (relative
 // to the largest of ||v|| and ||J_i/rho||) above which a solution carries
-// a warning. On the channel benchmark of docs/augmentation.md the total-flux
-// formulation's boundary fluxes were off by about one to two times its
-// defect: 6 % defect and a patch flux 12 % high at a Peclet number of
-// 0.31, 1.5 % and 2 % at 1.25, 0.4 % and 0.3 % at 3.1 (against the
-// diffusive-flux formulation, whose fluxes converged to 0.02 %).
+// a warning. On the channel benchmark of docs/augmentation.md, at a Peclet
+// number of 0.31, the inlet that gives both the velocity and the species
+// fluxes left the total-flux formulation a defect of 6 % that did not fall
+// with the mesh, and the two formulations' released fluxes 12 % apart;
+// with a consistent mass-flux inlet the defect fell (6.1e-2, 2.5e-2 on 4
+// and 8 rows) and the two agreed within 0.3 %.
 const MassAverageLimit = 1e-2
 
 // massAverageWarning returns the warning for a solution of the given
@@ -262,5 +263,5 @@ func massAverageWarning(f casefile.Formulation, ma float64) string {
 	if f == casefile.DiffusiveFlux {
 		return fmt.Sprintf("the mass-average defect of the fields converted to total fluxes is %.2g (above %g); in this formulation it is an interpolation error: refine the mesh", ma, MassAverageLimit)
 	}
-	return fmt.Sprintf("the mass-average defect ||v - sum J/rho|| is %.2g (above %g): the species augmentation controls the total flux only that well here, and boundary fluxes may be off by as much or more; refine the mesh, and if the defect does not fall (it did not in slow, diffusion-dominated flow past a releasing wall), with the plain ideal gas choose discretisation.formulation: diffusive-flux, which holds it exactly", ma, MassAverageLimit)
+	return fmt.Sprintf("the mass-average defect ||v - sum J/rho|| is %.2g (above %g): the velocity departs from the mass-average velocity of the species fluxes by that fraction. Refine the mesh; if the defect does not fall, check the boundary data: an inflow with both a velocity and convective-inflow fluxes contradicts v = sum J/rho wherever diffusion changes the density at the inlet (slow flow): give such an inflow as species mass fluxes on a stefan-wall instead", ma, MassAverageLimit)
 }

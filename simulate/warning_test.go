@@ -17,7 +17,7 @@ func TestMassAverageWarning(t *testing.T) {
 	}{
 		{casefile.TotalFlux, 0, ""},
 		{casefile.TotalFlux, 0.9 * MassAverageLimit, ""},
-		{casefile.TotalFlux, 0.06, "formulation: diffusive-flux"},
+		{casefile.TotalFlux, 0.06, "species mass fluxes on a stefan-wall"},
 		{casefile.TotalFlux, 0.06, "is 0.06 (above 0.01)"},
 		{casefile.DiffusiveFlux, 0.9 * MassAverageLimit, ""},
 		{casefile.DiffusiveFlux, 0.02, "interpolation error: refine the mesh"},

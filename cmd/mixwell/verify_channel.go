@@ -60,6 +60,9 @@ func (o *verifyOptions) channelConfig(cmd *cobra.Command) (verification.Config, 
 			return cfg, fmt.Errorf("--formulation diffusive-flux iterates with --method anderson only, not %s", o.method)
 		}
 	}
+	if err := checkChoice("inlet", o.inlet, []string{verification.VelocityInlet, verification.MassFluxInlet}); err != nil {
+		return cfg, err
+	}
 	if !(o.meanSpeed > 0) || math.IsInf(o.meanSpeed, 0) {
 		return cfg, fmt.Errorf("--mean-speed must be positive and finite (m/s), got %g", o.meanSpeed)
 	}
@@ -76,7 +79,7 @@ func runChannel(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.C
 	stdout, stderr := cmd.OutOrStdout(), cmd.ErrOrStderr()
 	cc := verification.ChannelConfig{Degree: cfg.Degree, Levels: cfg.Levels, Coarse: cfg.Coarse,
 		Method: cfg.Method, MaxIterations: cfg.MaxIterations, Thermodynamics: o.thermodynamics,
-		SpeciesAugmentation: cfg.Beta, Formulation: cfg.Formulation, MeanSpeed: o.meanSpeed}
+		SpeciesAugmentation: cfg.Beta, Formulation: cfg.Formulation, MeanSpeed: o.meanSpeed, Inlet: o.inlet}
 	if !o.quiet && d.isTerminal(stderr) {
 		start := time.Now()
 		cc.Progress = func(what string, unknowns int) {
@@ -109,7 +112,7 @@ func runChannel(cmd *cobra.Command, d deps, o *verifyOptions, cfg verification.C
 
 // writeChannelTable prints a channel study as a table.
 func writeChannelTable(w interface{ Write([]byte) (int, error) }, st *verification.ChannelStudy) {
-	fmt.Fprintf(w, "channel benchmark, degree %d, %s, %s, beta %g, Peclet number %.3g, S = %.3g\n", st.Degree, st.Formulation, st.Thermodynamics, st.Beta, st.Peclet, st.S)
+	fmt.Fprintf(w, "channel benchmark, degree %d, %s, %s, %s inlet, beta %g, Peclet number %.3g, S = %.3g\n", st.Degree, st.Formulation, st.Thermodynamics, st.Inlet, st.Beta, st.Peclet, st.S)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "rows\tunknowns\titerations\tconverged\tpatch flux A (mol/(s m))\toutlet x_A\tmass average\tEOS defect\tseconds\t")
 	for l := range st.Rows {

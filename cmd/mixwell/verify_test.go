@@ -405,21 +405,22 @@ func TestVerifyPoissonJSON(t *testing.T) {
 func TestWriteChannelTable(t *testing.T) {
 	// The table prints one row per level and the study's summary line
 	// with the values given (made-up numbers: only the layout is tested).
-	st := &verification.ChannelStudy{Degree: 1, Thermodynamics: "ideal-gas-at-pressure", Beta: 0.3, Peclet: 6.25, S: 2.2e-8,
-		Rows: []int{4, 8}, Unknowns: []int{100, 400}, Iterations: []int{40, 41}, Converged: []bool{true, false},
+	st := &verification.ChannelStudy{Degree: 1, Formulation: "total-flux", Thermodynamics: "ideal-gas-at-pressure", Inlet: "velocity", Beta: 0.3, Peclet: 6.25, S: 2.2e-8,
+		Warnings: []string{"4 rows: a made-up warning"},
+		Rows:     []int{4, 8}, Unknowns: []int{100, 400}, Iterations: []int{40, 41}, Converged: []bool{true, false},
 		PatchFlux: []float64{8.5e-4, 8.6e-4}, OutletA: []float64{0.25, 0.26}, MassAverageLevels: []float64{4e-3, 2e-3},
 		EOSDefect: []float64{3e-2, 1e-2}, Seconds: []float64{1, 2},
 		Balance: 1e-15, MassAverage: 2e-3, Truncation: 1.5e-3, PatchFluxChange: 1.2e-2}
 	var b bytes.Buffer
 	writeChannelTable(&b, st)
 	out := b.String()
-	for _, want := range []string{"ideal-gas-at-pressure, beta 0.3, Peclet number 6.25", "EOS defect", "1.000e-02", "false", "truncation 1.500e-03", "patch flux change 1.200e-02"} {
+	for _, want := range []string{"total-flux, ideal-gas-at-pressure, velocity inlet, beta 0.3, Peclet number 6.25", "warning: 4 rows: a made-up warning", "EOS defect", "1.000e-02", "false", "truncation 1.500e-03", "patch flux change 1.200e-02"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("table lacks %q:\n%s", want, out)
 		}
 	}
-	if n := strings.Count(out, "\n"); n != 5 {
-		t.Errorf("table has %d lines, want 5 (title, header, 2 levels, summary):\n%s", n, out)
+	if n := strings.Count(out, "\n"); n != 6 {
+		t.Errorf("table has %d lines, want 6 (title, header, 2 levels, summary, warning):\n%s", n, out)
 	}
 }
 
@@ -453,7 +454,7 @@ func TestChannelConfigTakesFormulationAndSpeed(t *testing.T) {
 	// (docs/augmentation.md compares the formulations over the Peclet
 	// number), and their misuse is named; the study is not run here.
 	cmd, o := newVerifyCmdOptions((&fakeLib{}).deps())
-	args := []string{"--problem", "channel", "--degree", "1", "--formulation", "diffusive-flux", "--mean-speed", "0.05"}
+	args := []string{"--problem", "channel", "--degree", "1", "--formulation", "diffusive-flux", "--mean-speed", "0.05", "--inlet", "mass-flux"}
 	if err := cmd.ParseFlags(args); err != nil {
 		t.Fatal(err)
 	}
@@ -461,8 +462,8 @@ func TestChannelConfigTakesFormulationAndSpeed(t *testing.T) {
 	if err != nil {
 		t.Fatalf("%v: %v", args, err)
 	}
-	if cfg.Formulation != "diffusive-flux" || o.meanSpeed != 0.05 {
-		t.Errorf("%v: formulation %q, mean speed %g", args, cfg.Formulation, o.meanSpeed)
+	if cfg.Formulation != "diffusive-flux" || o.meanSpeed != 0.05 || o.inlet != "mass-flux" {
+		t.Errorf("%v: formulation %q, mean speed %g, inlet %q", args, cfg.Formulation, o.meanSpeed, o.inlet)
 	}
 	for _, tc := range []struct {
 		args []string
@@ -473,6 +474,7 @@ func TestChannelConfigTakesFormulationAndSpeed(t *testing.T) {
 		{[]string{"--formulation", "diffusive-flux", "--thermodynamics", "ideal-gas-at-pressure"}, "--thermodynamics ideal-gas only"},
 		{[]string{"--formulation", "diffusive-flux", "--method", "picard"}, "--method anderson only"},
 		{[]string{"--mean-speed", "0"}, "--mean-speed must be positive"},
+		{[]string{"--inlet", "pipe"}, `"pipe"`},
 		{[]string{"--mean-speed", "-1"}, "--mean-speed must be positive"},
 	} {
 		cmd, o := newVerifyCmdOptions((&fakeLib{}).deps())
