@@ -91,6 +91,8 @@ type stefanDof struct {
 	t      int
 	xh     [2]float64
 	normal [2]float64
+	// tag is the Stefan wall's boundary tag.
+	tag int
 }
 
 // boundaryEdge is a boundary edge seen from its triangle.
@@ -324,7 +326,7 @@ func (d *Discretisation) collectStefan(t int, at map[int]stefanDof, tangential m
 			if _, seen := at[g]; !seen {
 				var n [2]float64
 				n[c] = math.Copysign(1, nrm[c])
-				at[g] = stefanDof{global: g, t: tri, xh: nodes[a], normal: n}
+				at[g] = stefanDof{global: g, t: tri, xh: nodes[a], normal: n, tag: t}
 			}
 		}
 	}

@@ -103,6 +103,9 @@ func (d *Discretisation) SolveNonlinear(s *NonlinearSettings) (*Solution, *Nonli
 			return nil, nil, fmt.Errorf("physics: initial state: %w", ferr)
 		}
 	}
+	if err := pm.initialStefanVelocities(x0, s.Initial); err != nil {
+		return nil, nil, fmt.Errorf("physics: initial state: %w", err)
+	}
 	if err := pm.initialOutletTotals(x0); err != nil {
 		return nil, nil, fmt.Errorf("physics: initial state: %w", err)
 	}

@@ -516,9 +516,13 @@ func (pm *picard) boundaryPotentials(dst, mu []float64, p, pout float64, c []flo
 // other boundaries' data bring in, spread evenly over the outflow length.
 // When every species has flux data on every other boundary, that mass is
 // exact (the sum of the prescribed species fluxes); otherwise it is the
-// prescribed volume inflow times the initial density at the outlet. The
-// first step needs T^ != 0: with T^ = 0 the outflow conditions do not see
-// the potentials, whose levels are then undetermined.
+// prescribed volume inflow times the initial density at the outlet, plus
+// the mass that Stefan walls with flux data for every species bring in.
+// The first step needs T^ != 0: with T^ = 0 the outflow conditions do not
+// see the potentials, whose levels are then undetermined (an inlet of given
+// mass fluxes next to a composition boundary, counted as no inflow, sent
+// the levels of two species to -3426 and 6850 RT in the first step of the
+// channel benchmark).
 func (pm *picard) initialOutletTotals(x []float64) error {
 	d := pm.d
 	p, m := d.prob, d.m
@@ -530,13 +534,22 @@ func (pm *picard) initialOutletTotals(x []float64) error {
 		return err
 	}
 	allFlux := true
-	var massIn, volIn, outLength float64
+	// massIn is the mass all flux data bring in, massStefan the part of it
+	// that enters through Stefan walls with flux data for every species
+	// (inlets of given mass fluxes, whose velocity is not given).
+	var massIn, massStefan, volIn, outLength float64
 	for _, e := range m.BoundaryEdges(0) {
 		bc := p.Boundary[m.EdgeTags[e]]
 		nrm, length := fem.OutwardNormal(m, e)
 		if bc.Species[0].Kind == SpeciesOutflow {
 			outLength += length
 			continue
+		}
+		stefanData := bc.Velocity.Kind == VelocityStefan
+		for _, sc := range bc.Species {
+			if sc.Kind != SpeciesFlux || sc.Flux == nil || sc.Potential != nil {
+				stefanData = false
+			}
 		}
 		a, b := m.Points[m.Edges[e][0]], m.Points[m.Edges[e][1]]
 		for q, s := range rule.Points {
@@ -551,7 +564,11 @@ func (pm *picard) initialOutletTotals(x []float64) error {
 				case sc.Kind != SpeciesFlux:
 					allFlux = false
 				case sc.Flux != nil:
-					massIn -= W * sc.Flux(xq, nrm)
+					f := W * sc.Flux(xq, nrm)
+					massIn -= f
+					if stefanData {
+						massStefan -= f
+					}
 				}
 			}
 		}
@@ -562,7 +579,7 @@ func (pm *picard) initialOutletTotals(x []float64) error {
 	d.out.ready = false
 	tot := x[pm.outletOffset():pm.previousOffset()]
 	for pq := range tot {
-		t := volIn * d.out.rho[pq] / outLength
+		t := (volIn*d.out.rho[pq] + massStefan) / outLength
 		if allFlux {
 			t = massIn / outLength
 		}

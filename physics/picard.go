@@ -460,6 +460,45 @@ func (pm *picard) applyInventory(sol *Solution, x []float64) error {
 	return nil
 }
 
+// initialStefanVelocities sets, in the initial state x, the normal velocity
+// of every node of a Stefan wall with flux data for every species (an
+// inlet of given mass fluxes) to sum_i g_i / rho of the data g_i and the
+// initial density, in place of 0, so that the first step does not hold
+// the velocity at 0 where the data bring mass in. Nodes of Stefan walls
+// with composition data keep 0.
+func (pm *picard) initialStefanVelocities(x []float64, initial func(x [2]float64, mu []float64)) error {
+	d := pm.d
+	n := d.n
+	mu := make([]float64, n)
+	c := make([]float64, n)
+	so := pm.stefanOffset()
+	for k, sd := range d.stefan {
+		bc := d.prob.Boundary[sd.tag]
+		data := true
+		for _, sc := range bc.Species {
+			if sc.Kind != SpeciesFlux || sc.Flux == nil || sc.Potential != nil {
+				data = false
+			}
+		}
+		if !data {
+			continue
+		}
+		af := fem.ElementMap(d.m, sd.t)
+		xp := af.Point(sd.xh)
+		initial(xp, mu)
+		if err := pm.closure.ConcentrationsTo(c, nil, nil, mu, pm.p0); err != nil {
+			return err
+		}
+		var rho, jn float64
+		for i, sc := range bc.Species {
+			rho += d.prob.Mixture.mass[i] * c[i]
+			jn += sc.Flux(xp, sd.normal)
+		}
+		x[so+k] = jn / rho
+	}
+	return nil
+}
+
 // stefanVelocities writes the outward normal velocity sum_i J_i.n / rho of
 // every Stefan-wall node, with J from sol and rho from the state x.
 func (pm *picard) stefanVelocities(dst []float64, sol *Solution, x []float64) error {
