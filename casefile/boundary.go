@@ -20,7 +20,7 @@ var velocityKeys = map[VelocityKind][]string{
 // Keys allowed in a species condition, per kind.
 var speciesKeys = map[SpeciesKind][]string{
 	Impermeable:      {"type"},
-	Flux:             {"type", "basis", "fluxes"},
+	Flux:             {"type", "basis", "fluxes", "profile"},
 	ConvectiveInflow: {"type", "mole_fractions"},
 	Composition:      {"type", "mole_fractions", "impermeable"},
 	Outflow:          {"type"},
@@ -177,6 +177,12 @@ func (d *decoder) speciesBC(n *yaml.Node, path string, sp *speciesSet, boundary 
 				return d.quantity(v, p, k)
 			})
 		}
+		s.Profile = Uniform
+		if p := m.get("profile"); p != nil {
+			if w, ok := d.word(p, join(path, "profile"), []string{string(Uniform), string(Parabolic)}); ok {
+				s.Profile = Profile(w)
+			}
+		}
 	case ConvectiveInflow, Composition:
 		if xn := d.require(m, "mole_fractions", "give the composition as mole fractions"); xn != nil {
 			s.MoleFractions, _ = d.composition(xn, join(path, "mole_fractions"), sp, "on boundary \""+boundary+"\"")
@@ -248,6 +254,9 @@ func (d *decoder) boundaryChecks(n *yaml.Node, geo *geometryNames, c *Case, node
 		segs := geo.segments[b.Name]
 		if b.Velocity.Kind == Inflow && b.Velocity.Profile == Parabolic && !collinear(segs) {
 			d.fail(bn.velocity, join(bp, "velocity"), "a parabolic inflow needs a straight boundary; the segments of %q are not on one line", b.Name)
+		}
+		if b.Species.Kind == Flux && b.Species.Profile == Parabolic && !collinear(segs) {
+			d.fail(bn.species, join(bp, "species"), "parabolic fluxes need a straight boundary; the segments of %q are not on one line", b.Name)
 		}
 		if b.Velocity.Kind == Slip && !axisParallel(segs) {
 			d.warn(bn.velocity, join(bp, "velocity"), "slip on segments not parallel to a coordinate axis: the solver supports slip only on axis-parallel segments")

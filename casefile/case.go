@@ -358,6 +358,12 @@ type SpeciesBC struct {
 	// species not listed in the file have 0 (flux only). The mass flux is
 	// J_i.n = M_i N_i.n.
 	Fluxes []float64
+	// Profile is how the fluxes vary along the boundary (flux only):
+	// Uniform, or Parabolic, where Fluxes are the means and each flux is
+	// 6 t (1 - t) times its mean, t the position along the (straight)
+	// boundary, vanishing at its ends like the velocity next to no-slip
+	// walls: an inlet of given mass fluxes into a channel.
+	Profile Profile
 	// MoleFractions is the composition, one per species, summing to one
 	// within 1e-9; zeros are kept (the solver raises them to
 	// Solver.MoleFractionFloor) (convective-inflow and composition only).

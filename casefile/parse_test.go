@@ -200,6 +200,12 @@ func TestParseErrors(t *testing.T) {
 			{"velocity: {type: open, pressure: 0}", "velocity: {type: inflow, profile: parabolic, mean_speed: 1 mm/s}"},
 			{"      type: composition\n      mole_fractions: {A: 0.1", "      type: convective-inflow\n      mole_fractions: {A: 0.1"}},
 			at: "{type: inflow", col: true, path: "boundaries.top.velocity", msg: "a parabolic inflow needs a straight boundary"},
+		{name: "parabolic fluxes on a bent boundary", edit: [][2]string{
+			poly("      - {name: bottom, points: [[0, 0], [1, 0]]}\n      - {name: top, points: [[1, 1], [0.5, 1.5]]}\n      - {name: wall, points: [[0, 1]]}"),
+			{"velocity: {type: open, pressure: 0}\n    species:\n      type: composition\n      mole_fractions: {A: 0.1, B: 0.1, C: 0.8}", "velocity: stefan-wall\n    species: {type: flux, basis: mass, profile: parabolic, fluxes: {A: -1 g/(m^2 s)}}"}},
+			at: "{type: flux", col: true, path: "boundaries.top.species", msg: "parabolic fluxes need a straight boundary"},
+		{name: "unknown flux profile", edit: [][2]string{{"    velocity: slip", "    velocity: slip\n    species: {type: flux, basis: mass, profile: cubic, fluxes: {A: 0}}"}},
+			at: "cubic", col: true, path: "boundaries.wall.species.profile", msg: `"cubic" is not one of uniform, parabolic`},
 		{name: "cell size and max area", edit: [][2]string{{rectLine, polygonGeometry}, {"  meshing: {cell_size: 0.1}", "  meshing: {cell_size: 0.1, max_area: 1e-3}"}},
 			at: "max_area", col: true, path: "geometry.meshing.max_area", msg: "give cell_size or max_area, not both"},
 		{name: "min angle too large", edit: [][2]string{{rectLine, polygonGeometry}, {"{cell_size: 0.1}", "{cell_size: 0.1, min_angle: 40}"}},
@@ -563,6 +569,38 @@ func TestParseFormulation(t *testing.T) {
 			if !strings.Contains(c.Summary(), string(tc.want)+" formulation") {
 				t.Errorf("summary does not name the formulation %s:\n%s", tc.want, c.Summary())
 			}
+		})
+	}
+}
+
+func TestParseFluxProfile(t *testing.T) {
+	// Flux data are uniform unless profile: parabolic is given, where the
+	// fluxes are the means over the boundary.
+	for _, tc := range []struct {
+		name, species string
+		want          casefile.Profile
+	}{
+		{"default", "{type: flux, basis: mass, fluxes: {A: -1 g/(m^2 s)}}", casefile.Uniform},
+		{"uniform", "{type: flux, basis: mass, profile: uniform, fluxes: {A: -1 g/(m^2 s)}}", casefile.Uniform},
+		{"parabolic", "{type: flux, basis: molar, profile: parabolic, fluxes: {A: -1 mol/(m^2 s), B: -2 mol/(m^2 s)}}", casefile.Parabolic},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			text := strings.Replace(baseCase, "    velocity: {type: open, pressure: 0}\n    species:\n      type: composition\n      mole_fractions: {A: 0.1, B: 0.1, C: 0.8}",
+				"    velocity: stefan-wall\n    species: "+tc.species, 1)
+			c, err := casefile.Parse("case.yaml", []byte(text))
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, b := range c.Boundaries {
+				if b.Name != "top" {
+					continue
+				}
+				if b.Species.Kind != casefile.Flux || b.Species.Profile != tc.want {
+					t.Errorf("top: species %s with profile %q, want flux with %q", b.Species.Kind, b.Species.Profile, tc.want)
+				}
+				return
+			}
+			t.Error("no boundary top")
 		})
 	}
 }

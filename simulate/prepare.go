@@ -454,13 +454,27 @@ func (s *Setup) boundary(sm *mesh.Mesh, tag int, b casefile.Boundary) (physics.B
 			bc.Species[i] = physics.SpeciesCondition{Kind: physics.SpeciesFlux}
 		}
 	case casefile.Flux:
+		// A parabolic profile along the straight boundary from a to bb:
+		// 6 t (1 - t) times the mean.
+		shape := func([2]float64) float64 { return 1 }
+		if spc.Profile == casefile.Parabolic {
+			a, bb, _, err := segmentOf(sm, tag)
+			if err != nil {
+				return bc, fmt.Errorf("parabolic fluxes need a straight boundary: %v", err)
+			}
+			l2 := (bb[0]-a[0])*(bb[0]-a[0]) + (bb[1]-a[1])*(bb[1]-a[1])
+			shape = func(x [2]float64) float64 {
+				t := ((x[0]-a[0])*(bb[0]-a[0]) + (x[1]-a[1])*(bb[1]-a[1])) / l2
+				return 6 * t * (1 - t)
+			}
+		}
 		for i := range bc.Species {
 			f := spc.Fluxes[i]
 			if spc.Basis == casefile.MolarBasis {
 				f *= c.Species[i].MolarMass
 			}
 			f /= sc.MassFlux()
-			bc.Species[i] = physics.SpeciesCondition{Kind: physics.SpeciesFlux, Flux: func(_, _ [2]float64) float64 { return f }}
+			bc.Species[i] = physics.SpeciesCondition{Kind: physics.SpeciesFlux, Flux: func(x, _ [2]float64) float64 { return f * shape(x) }}
 		}
 	case casefile.ConvectiveInflow:
 		if inflowNormal == nil {
