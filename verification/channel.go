@@ -92,23 +92,21 @@ const (
 	// else (docs/augmentation.md).
 	VelocityInlet = "velocity"
 	// MassFluxInlet gives the species mass fluxes of the inflow
-	// composition at the mean speed, uniform across the inlet, on a
-	// Stefan wall, whose normal velocity sum J.n / rho follows. It is
-	// consistent with v = sum J/rho except at the two corners, where the
-	// no-slip walls hold v = 0 against the uniform flux. Measured at
-	// degree 1: both formulations converge at a Peclet number of 0.31 and
-	// fail at 3.1 and 6.25 (docs/augmentation.md).
+	// composition at the mean speed with a parabolic profile, on a Stefan
+	// wall, whose normal velocity sum J.n / rho follows: consistent with
+	// v = sum J/rho at any Peclet number, the no-slip corners included.
 	MassFluxInlet = "mass-flux"
 )
 
 // massFluxInlet returns the case text of the mass-flux inlet at the mean
-// speed (m/s): J_i.n = -c x_i M_i U, with c = P/(R T) the concentration of
-// the inflow composition x = (0.1, 0.6, 0.3) at the reference pressure.
+// speed (m/s): J_i.n = -c x_i M_i U on average, parabolic across the
+// inlet, with c = P/(R T) the concentration of the inflow composition
+// x = (0.1, 0.6, 0.3) at the reference pressure.
 func massFluxInlet(speed float64) string {
 	c := channelPressure / (physics.GasConstant * channelTemperature)
 	return fmt.Sprintf(`  inlet:
     velocity: stefan-wall
-    species: {type: flux, basis: mass, fluxes: {A: %.10g kg/(m^2 s), B: %.10g kg/(m^2 s), C: %.10g kg/(m^2 s)}}
+    species: {type: flux, basis: mass, profile: parabolic, fluxes: {A: %.10g kg/(m^2 s), B: %.10g kg/(m^2 s), C: %.10g kg/(m^2 s)}}
 `, -c*0.1*0.018*speed, -c*0.6*0.028*speed, -c*0.3*0.044*speed)
 }
 

@@ -147,11 +147,15 @@ func TestChannelLowPeclet(t *testing.T) {
 	// 0.31), so the default inlet, which gives both the velocity and the
 	// species fluxes, contradicts v = sum J/rho: the total-flux solution
 	// must say so (measured mass-average defect 0.11 and 0.072 on 2 and 4
-	// rows). The mass-flux inlet is consistent but for its corners; with
-	// it the diffusive-flux formulation must converge with the defect of
-	// its converted fields falling and no warning (measured: 15 and 20
-	// iterations, defect 1.0e-4 and 1.9e-5, patch flux 9.6017e-5 and
-	// 9.6990e-5 mol/(s m) on 4 and 8 rows).
+	// rows). The mass-flux inlet (parabolic species mass fluxes on a
+	// Stefan wall) is consistent, and there the two formulations must
+	// agree: measured patch flux 9.6859e-5 / 9.7375e-5 (total-flux, 18 / 22
+	// iterations, defect 2.0e-2 / 6.7e-3) against 9.7356e-5 / 9.7554e-5
+	// mol/(s m) (diffusive-flux, 15 / 20, defect 9.9e-5 / 1.9e-5) on 4 / 8
+	// rows, 0.18 % apart on 8. Before the total-flux iteration counted the
+	// mass such an inlet brings in when it guesses the first outflow, its
+	// first step left the potential levels of B and C undetermined and it
+	// failed at once.
 	if testing.Short() {
 		t.Skip("channel benchmark skipped in -short mode")
 	}
@@ -177,26 +181,36 @@ func TestChannelLowPeclet(t *testing.T) {
 	if err != nil {
 		t.Fatalf("mass-flux inlet, diffusive-flux: %v", err)
 	}
-	t.Logf("mass-flux inlet, diffusive-flux: iterations %v, balance %.2g, mass average %.3g, patch flux %.6g",
-		c.Iterations, c.Balance, c.MassAverageLevels, c.PatchFlux)
-	for l, ok := range c.Converged {
-		if !ok {
-			t.Errorf("mass-flux inlet, %d rows: not converged", c.Rows[l])
+	b, err := RunChannel(ChannelConfig{Degree: 1, Levels: 2, NoTruncation: true, MeanSpeed: speed, Inlet: MassFluxInlet})
+	if err != nil {
+		t.Fatalf("mass-flux inlet, total-flux: %v", err)
+	}
+	for _, st := range []*ChannelStudy{c, b} {
+		t.Logf("mass-flux inlet, %s: iterations %v, balance %.2g, mass average %.3g, patch flux %.6g",
+			st.Formulation, st.Iterations, st.Balance, st.MassAverageLevels, st.PatchFlux)
+		for l, ok := range st.Converged {
+			if !ok {
+				t.Errorf("%s, %d rows: not converged", st.Formulation, st.Rows[l])
+			}
+		}
+		if st.Inlet != MassFluxInlet {
+			t.Errorf("%s: inlet %q", st.Formulation, st.Inlet)
+		}
+		// Diffusive-flux sets the inlet's normal velocity sum J.n / rho
+		// from the state's density, so its balance closes only to the
+		// iteration's tolerance, 1e-10 (measured 2.1e-10, against 3.7e-15
+		// for total-flux, whose fluxes are the unknowns).
+		if limit := map[string]float64{"total-flux": 1e-10, "diffusive-flux": 1e-9}[st.Formulation]; !(st.Balance < limit) {
+			t.Errorf("%s: species balance %.3g, want < %g", st.Formulation, st.Balance, limit)
+		}
+		if ma := st.MassAverageLevels; !(ma[1] < ma[0]/2) {
+			t.Errorf("%s: mass-average defect %v, want it at least halved", st.Formulation, ma)
 		}
 	}
-	if c.Inlet != MassFluxInlet || c.Formulation != "diffusive-flux" {
-		t.Errorf("inlet %q, formulation %q", c.Inlet, c.Formulation)
+	if !(c.MassAverage < 1e-4) || len(c.Warnings) != 0 {
+		t.Errorf("diffusive-flux: mass-average defect %.3g, warnings %q; want < 1e-4 and none", c.MassAverage, c.Warnings)
 	}
-	if !(c.Balance < 1e-10) {
-		t.Errorf("species balance %.3g, want < 1e-10", c.Balance)
-	}
-	if ma := c.MassAverageLevels; !(ma[1] < ma[0]) || !(ma[1] < 1e-4) {
-		t.Errorf("mass-average defect %v, want it falling and below 1e-4", ma)
-	}
-	if len(c.Warnings) != 0 {
-		t.Errorf("warnings %q, want none", c.Warnings)
-	}
-	if !(c.PatchFluxChange < 2e-2) {
-		t.Errorf("patch flux changes by %.3g between the levels, want < 2e-2", c.PatchFluxChange)
+	if d := math.Abs(b.PatchFlux[1]/c.PatchFlux[1] - 1); !(d < 5e-3) {
+		t.Errorf("patch flux %.6g (total-flux) against %.6g (diffusive-flux): %.3g apart, want < 5e-3", b.PatchFlux[1], c.PatchFlux[1], d)
 	}
 }

@@ -170,7 +170,7 @@ size and time.`,
 	f.StringVar(&o.regime, "regime", "", "`REGIME` of --problem sosm: unit (S = 1) or physical (S = 1e-7); the default depends on --flavour")
 	f.Float64Var(&o.beta, "beta", 0, "one-sided species augmentation `BETA` of --problem sosm or channel (0: the default; negative: none)")
 	f.StringVar(&o.thermodynamics, "thermodynamics", "ideal-gas", "`CLOSURE` of --problem channel: ideal-gas or ideal-gas-at-pressure")
-	f.StringVar(&o.inlet, "inlet", verification.VelocityInlet, "`INLET` of --problem channel: velocity (parabolic velocity and convective-inflow fluxes) or mass-flux (uniform species mass fluxes on a Stefan wall)")
+	f.StringVar(&o.inlet, "inlet", verification.VelocityInlet, "`INLET` of --problem channel: velocity (parabolic velocity and convective-inflow fluxes) or mass-flux (parabolic species mass fluxes on a Stefan wall)")
 	f.Float64Var(&o.meanSpeed, "mean-speed", 1, "mean inflow `SPEED` of --problem channel in m/s (Peclet number 6.25 per m/s)")
 	f.StringVar(&o.format, "format", "table", "output `FORMAT`: table or json")
 	f.StringVar(&o.plot, "plot", "", "also draw error against h on log–log axes into `FILE` (.png or .svg)")
