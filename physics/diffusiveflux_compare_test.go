@@ -93,23 +93,33 @@ func TestMixingChannelRemedies(t *testing.T) {
 					}
 				}
 			}
-			prob, gas, mean = mixingChannel(t, nx, nx/4, 5, 1e-7, massInlet)
-			prob.SpeciesAugmentation = FlowThroughSpeciesAugmentation
-			db, err := NewDiscretisation(prob)
-			if err != nil {
-				t.Fatal(err)
-			}
-			mu0 := []float64{math.Log(mean[0]), math.Log(mean[1]), math.Log(mean[2])}
-			solb, repb, err := db.SolveNonlinear(&NonlinearSettings{Closure: gas, Pressure0: 1, Depth: 20, MaxIterations: 60,
-				Initial: func(x [2]float64, mu []float64) { copy(mu, mu0) }})
+			db, solb, repb, err := totalFluxMixingChannel(t, nx, massInlet)
 			if err != nil {
 				t.Logf("mass inlet %v, %d cells, (b): %v", massInlet, nx, err)
 				continue
 			}
 			dg := db.Diagnose(solb)
-			xb := outletMoleFractions(dg.BoundaryFlux[2], prob.Mixture)
+			xb := outletMoleFractions(dg.BoundaryFlux[2], db.prob.Mixture)
 			t.Logf("mass inlet %v, %d cells, (b): %d unknowns, %d iterations, EOS %.2g, mass average %.2g, outlet %.8f %.8f %.8f",
 				massInlet, nx, db.Len(), repb.Iterations, eosDefect(db, solb), dg.MassAverage, xb[0], xb[1], xb[2])
 		}
 	}
+}
+
+// totalFluxMixingChannel solves the mixing channel of nx by nx/4 cells
+// (mixingChannel, Peclet number 5, S = 1e-7) with the total-flux iteration
+// (remedy (b), the flow-through beta), Anderson of depth 20 and at most 60
+// iterations, from the inflow's mean composition.
+func totalFluxMixingChannel(t *testing.T, nx int, massInlet bool) (*Discretisation, *Solution, *NonlinearReport, error) {
+	t.Helper()
+	prob, gas, mean := mixingChannel(t, nx, nx/4, 5, 1e-7, massInlet)
+	prob.SpeciesAugmentation = FlowThroughSpeciesAugmentation
+	d, err := NewDiscretisation(prob)
+	if err != nil {
+		t.Fatal(err)
+	}
+	mu0 := []float64{math.Log(mean[0]), math.Log(mean[1]), math.Log(mean[2])}
+	sol, rep, err := d.SolveNonlinear(&NonlinearSettings{Closure: gas, Pressure0: 1, Depth: 20, MaxIterations: 60,
+		Initial: func(x [2]float64, mu []float64) { copy(mu, mu0) }})
+	return d, sol, rep, err
 }
