@@ -422,12 +422,8 @@ func (d *DiffusiveFlux) couple() {
 	r := d.r
 	for t := 0; t < d.m.NumTriangles(); t++ {
 		vd, pd, fd, ud := d.V.Dofs(t), d.P.Dofs(t), d.F.Dofs(t), d.U.Dofs(t)
+		coupleStokes(d.sys, off, vd, pd)
 		for c := 0; c < 2; c++ {
-			for e := 0; e < 2; e++ {
-				d.sys.Couple(off(blockVX+c), vd, off(blockVX+e), vd)
-			}
-			d.sys.Couple(off(blockVX+c), vd, off(blockP), pd)
-			d.sys.Couple(off(blockP), pd, off(blockVX+c), vd)
 			for i := 0; i < r; i++ {
 				d.sys.Couple(off(dfBlockJ0+r+i), ud, off(blockVX+c), vd)
 			}

@@ -407,12 +407,8 @@ func (d *Discretisation) couple() {
 	off := d.lay.Offset
 	for t := 0; t < d.m.NumTriangles(); t++ {
 		vd, pd, fd, ud := d.V.Dofs(t), d.P.Dofs(t), d.F.Dofs(t), d.U.Dofs(t)
+		coupleStokes(d.sys, off, vd, pd)
 		for c := 0; c < 2; c++ {
-			for e := 0; e < 2; e++ {
-				d.sys.Couple(off(blockVX+c), vd, off(blockVX+e), vd)
-			}
-			d.sys.Couple(off(blockVX+c), vd, off(blockP), pd)
-			d.sys.Couple(off(blockP), pd, off(blockVX+c), vd)
 			for j := 0; j < n; j++ {
 				d.sys.Couple(off(blockVX+c), vd, off(blockJ0+j), fd)
 				d.sys.Couple(off(blockJ0+j), fd, off(blockVX+c), vd)

@@ -145,3 +145,18 @@ func (s *mixedSpaces) addTraction(fv *[2][]float64, m *mesh.Mesh, bc BoundaryCon
 		}
 	}
 }
+
+// coupleStokes declares, in sys, the Stokes blocks of one triangle with
+// velocity unknowns vd and pressure unknowns pd: each velocity component
+// with both components and the pressure, and the pressure with both
+// components; off gives the offset of a layout block. Both discretisations
+// declare them.
+func coupleStokes(sys *fem.PatternSystem, off func(int) int, vd, pd []int) {
+	for c := 0; c < 2; c++ {
+		for e := 0; e < 2; e++ {
+			sys.Couple(off(blockVX+c), vd, off(blockVX+e), vd)
+		}
+		sys.Couple(off(blockVX+c), vd, off(blockP), pd)
+		sys.Couple(off(blockP), pd, off(blockVX+c), vd)
+	}
+}
