@@ -405,6 +405,9 @@ func RunChannel(cfg ChannelConfig) (*ChannelStudy, error) {
 		}
 		st.S = o.Setup.Scales.S()
 		st.Beta = o.Setup.Problem.SpeciesAugmentation
+		if st.Formulation == string(casefile.DiffusiveFlux) {
+			st.Beta = 0 // set by the case, but not used
+		}
 		st.Rows = append(st.Rows, rows)
 		st.H = append(st.H, 1/float64(rows))
 		st.Unknowns = append(st.Unknowns, o.Setup.Unknowns())

@@ -207,6 +207,9 @@ func TestChannelLowPeclet(t *testing.T) {
 			t.Errorf("%s: mass-average defect %v, want it at least halved", st.Formulation, ma)
 		}
 	}
+	if c.Beta != 0 || b.Beta != 0.3 {
+		t.Errorf("beta %g (diffusive-flux) and %g (total-flux), want 0 (not used) and 0.3 (flow-through default)", c.Beta, b.Beta)
+	}
 	if !(c.MassAverage < 1e-4) || len(c.Warnings) != 0 {
 		t.Errorf("diffusive-flux: mass-average defect %.3g, warnings %q; want < 1e-4 and none", c.MassAverage, c.Warnings)
 	}
