@@ -545,12 +545,7 @@ func (pm *picard) initialOutletTotals(x []float64) error {
 			outLength += length
 			continue
 		}
-		stefanData := bc.Velocity.Kind == VelocityStefan
-		for _, sc := range bc.Species {
-			if sc.Kind != SpeciesFlux || sc.Flux == nil || sc.Potential != nil {
-				stefanData = false
-			}
-		}
+		stefanData := fluxInlet(bc)
 		a, b := m.Points[m.Edges[e][0]], m.Points[m.Edges[e][1]]
 		for q, s := range rule.Points {
 			xq := [2]float64{a[0] + s*(b[0]-a[0]), a[1] + s*(b[1]-a[1])}

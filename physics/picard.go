@@ -474,13 +474,7 @@ func (pm *picard) initialStefanVelocities(x []float64, initial func(x [2]float64
 	so := pm.stefanOffset()
 	for k, sd := range d.stefan {
 		bc := d.prob.Boundary[sd.tag]
-		data := true
-		for _, sc := range bc.Species {
-			if sc.Kind != SpeciesFlux || sc.Flux == nil || sc.Potential != nil {
-				data = false
-			}
-		}
-		if !data {
+		if !fluxInlet(bc) {
 			continue
 		}
 		af := fem.ElementMap(d.m, sd.t)
@@ -497,6 +491,21 @@ func (pm *picard) initialStefanVelocities(x []float64, initial func(x [2]float64
 		x[so+k] = jn / rho
 	}
 	return nil
+}
+
+// fluxInlet reports whether bc is a Stefan wall with flux data for every
+// species and no wall potentials: an inlet (or outlet) of given mass
+// fluxes, whose normal velocity follows from the data.
+func fluxInlet(bc BoundaryCondition) bool {
+	if bc.Velocity.Kind != VelocityStefan {
+		return false
+	}
+	for _, sc := range bc.Species {
+		if sc.Kind != SpeciesFlux || sc.Flux == nil || sc.Potential != nil {
+			return false
+		}
+	}
+	return true
 }
 
 // stefanVelocities writes the outward normal velocity sum_i J_i.n / rho of

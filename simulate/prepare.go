@@ -411,15 +411,11 @@ func (s *Setup) boundary(sm *mesh.Mesh, tag int, b casefile.Boundary) (physics.B
 			return bc, fmt.Errorf("an inflow must be straight: %v", err)
 		}
 		u := vel.MeanSpeed / sc.Velocity()
-		length := math.Hypot(bb[0]-a[0], bb[1]-a[1])
-		parabolic := vel.Profile == casefile.Parabolic
-		speed := func(x [2]float64) float64 {
-			if !parabolic {
-				return u
-			}
-			t := ((x[0]-a[0])*(bb[0]-a[0]) + (x[1]-a[1])*(bb[1]-a[1])) / (length * length)
-			return 6 * u * t * (1 - t)
+		shape := func([2]float64) float64 { return 1 }
+		if vel.Profile == casefile.Parabolic {
+			shape = parabolicShape(a, bb)
 		}
+		speed := func(x [2]float64) float64 { return u * shape(x) }
 		bc.Velocity.Velocity = func(x [2]float64) [2]float64 {
 			w := speed(x)
 			return [2]float64{-w * nrm[0], -w * nrm[1]}
@@ -454,19 +450,13 @@ func (s *Setup) boundary(sm *mesh.Mesh, tag int, b casefile.Boundary) (physics.B
 			bc.Species[i] = physics.SpeciesCondition{Kind: physics.SpeciesFlux}
 		}
 	case casefile.Flux:
-		// A parabolic profile along the straight boundary from a to bb:
-		// 6 t (1 - t) times the mean.
 		shape := func([2]float64) float64 { return 1 }
 		if spc.Profile == casefile.Parabolic {
 			a, bb, _, err := segmentOf(sm, tag)
 			if err != nil {
 				return bc, fmt.Errorf("parabolic fluxes need a straight boundary: %v", err)
 			}
-			l2 := (bb[0]-a[0])*(bb[0]-a[0]) + (bb[1]-a[1])*(bb[1]-a[1])
-			shape = func(x [2]float64) float64 {
-				t := ((x[0]-a[0])*(bb[0]-a[0]) + (x[1]-a[1])*(bb[1]-a[1])) / l2
-				return 6 * t * (1 - t)
-			}
+			shape = parabolicShape(a, bb)
 		}
 		for i := range bc.Species {
 			f := spc.Fluxes[i]
@@ -626,4 +616,15 @@ func SpeciesAugmentation(c *casefile.Case) float64 {
 		}
 	}
 	return physics.ClosedSpeciesAugmentation
+}
+
+// parabolicShape returns the parabolic profile of mean 1 along the straight
+// boundary from a to b: 6 t (1 - t), t the position of x projected on the
+// boundary (0 at a, 1 at b). Inflow velocities and flux data share it.
+func parabolicShape(a, b [2]float64) func(x [2]float64) float64 {
+	l2 := (b[0]-a[0])*(b[0]-a[0]) + (b[1]-a[1])*(b[1]-a[1])
+	return func(x [2]float64) float64 {
+		t := ((x[0]-a[0])*(b[0]-a[0]) + (x[1]-a[1])*(b[1]-a[1])) / l2
+		return 6 * t * (1 - t)
+	}
 }

@@ -4,9 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"mixwell/casefile"
 	"time"
 
+	"mixwell/casefile"
 	"mixwell/fem"
 	"mixwell/physics"
 	"mixwell/solver"

@@ -235,6 +235,17 @@ func channelCase(cfg ChannelConfig, rows int, length float64) (*casefile.Case, e
 	if maxIt == 0 {
 		maxIt = 150
 	}
+	var formulation string
+	if cfg.Formulation != "" {
+		formulation = ", formulation: " + cfg.Formulation
+	}
+	inlet := fmt.Sprintf(`  inlet:
+    velocity: {type: inflow, profile: parabolic, mean_speed: %g m/s}
+    species: {type: convective-inflow, mole_fractions: {A: 0.1, B: 0.6, C: 0.3}}
+`, speed)
+	if cfg.Inlet == MassFluxInlet {
+		inlet = massFluxInlet(speed)
+	}
 	text := fmt.Sprintf(`title: flow-through channel benchmark (invented data)
 temperature: %g K
 reference_pressure: %g Pa
@@ -249,12 +260,9 @@ thermodynamics: %s
 viscosity: 1.8e-5 Pa s
 geometry:
   mesh_file: channel.mesh
-discretisation: {degree: %d}
+discretisation: {degree: %d%s}
 boundaries:
-  inlet:
-    velocity: {type: inflow, profile: parabolic, mean_speed: %g m/s}
-    species: {type: convective-inflow, mole_fractions: {A: 0.1, B: 0.6, C: 0.3}}
-  outlet:
+%s  outlet:
     velocity: {type: open, pressure: 0 Pa}
     species: outflow
   patch:
@@ -270,7 +278,7 @@ solver:
   anderson_depth: 20
   max_iterations: %d
   tolerance: 1e-10
-`, channelTemperature, channelPressure, thermo, cfg.Degree, speed, method, maxIt)
+`, channelTemperature, channelPressure, thermo, cfg.Degree, formulation, inlet, method, maxIt)
 	if method != "anderson" {
 		text = strings.Replace(text, "  anderson_depth: 20\n", "", 1)
 	}
@@ -279,15 +287,6 @@ solver:
 		text += "  species_augmentation: 0\n"
 	case b > 0:
 		text += fmt.Sprintf("  species_augmentation: %g\n", b)
-	}
-	if cfg.Formulation != "" {
-		text = strings.Replace(text, fmt.Sprintf("discretisation: {degree: %d}", cfg.Degree), fmt.Sprintf("discretisation: {degree: %d, formulation: %s}", cfg.Degree, cfg.Formulation), 1)
-	}
-	if cfg.Inlet == MassFluxInlet {
-		text = strings.Replace(text, fmt.Sprintf(`  inlet:
-    velocity: {type: inflow, profile: parabolic, mean_speed: %g m/s}
-    species: {type: convective-inflow, mole_fractions: {A: 0.1, B: 0.6, C: 0.3}}
-`, speed), massFluxInlet(speed), 1)
 	}
 	fsys := fstest.MapFS{"channel.mesh": {Data: buf.Bytes()}}
 	return casefile.ParseFS("channel.yaml", []byte(text), fsys)
